@@ -1,0 +1,125 @@
+"""Typed, unit-normalised plan models: what the reader hands to compile.
+
+Glossary of units (one convention per quantity, carried in the field name):
+frequencies of channels and antenna designs in kHz (``_khz``); propagation
+figures in MHz (``_mhz``); lengths and heights in metres (``_m``); power in
+watts (``_w``); angles in degrees (``_deg``); SNR and margins in dB;
+latitude and longitude in decimal degrees (WGS84), east and north positive.
+Hours of the day are UTC hours 0-23 unless named ``local``.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+from dataclasses import dataclass, field
+
+from planpack.plan.modes import Mode
+
+
+@dataclass(frozen=True)
+class Position:
+    lat_deg: float
+    lon_deg: float
+    grid: str  # Maidenhead locator (given, or derived to 6 characters)
+
+
+@dataclass(frozen=True)
+class Ground:
+    soil: str  # ITU-R P.527 category
+    system: str  # rods | radials | counterpoise | none
+
+
+@dataclass(frozen=True)
+class Station:
+    id: str
+    name: str
+    address: str
+    role: str  # control | member
+    at: Position
+    power_w: float
+    noise: str  # ITU-R P.372 man-made noise category
+    noise_margin_db: float
+    antennas: tuple[str, ...]
+    ground: Ground
+    scan_rate: float  # [channels/s]
+
+
+@dataclass(frozen=True)
+class Channel:
+    id: str
+    khz: float
+    mode: str
+    note: str | None
+    # authorised hours, local time, as (start, end) minutes after midnight; end may be < start (wraps)
+    hours: tuple[tuple[int, int], ...] | None
+
+    @property
+    def mhz(self) -> float:
+        return self.khz / 1000.0
+
+
+@dataclass(frozen=True)
+class Feedline:
+    z0_ohm: float
+    length_m: float
+    loss_db_per_100m_at_10mhz: float
+
+
+@dataclass(frozen=True)
+class Antenna:
+    id: str
+    kind: str
+    design_khz: float | None
+    height_m: float
+    apex_deg: float | None
+    wire_mm: float
+    length_m: float | None
+    spacing_m: float | None
+    resistor_ohm: float | None
+    transformer_ratio: float | None
+    feedline: Feedline | None
+
+
+@dataclass(frozen=True)
+class Solar:
+    index: str  # 'ssn' or 'f107'
+    values: tuple[float, ...]  # one value, or (low, high)
+
+
+@dataclass(frozen=True)
+class Net:
+    id: str
+    title: str
+    handling: str | None
+    timezone: str
+    valid_from: dt.date
+    valid_to: dt.date
+    solar: Solar
+    net_address: str | None
+    links: str | tuple[tuple[str, str], ...]  # 'hub', 'all', or explicit pairs
+    base_url: str | None
+    instructions: str | None
+    target_good_days: float
+    card_size: str
+
+
+@dataclass(frozen=True)
+class Plan:
+    source: str  # the path the plan was read from, as given
+    sha256: str  # of the file's bytes
+    net: Net
+    stations: tuple[Station, ...]  # in file order
+    channels: tuple[Channel, ...]  # in file order (card order)
+    antennas: tuple[Antenna, ...]  # in file order
+    modes: dict[str, Mode] = field(default_factory=dict)  # built-in merged with the plan's
+    links: tuple[tuple[str, str], ...] = ()  # resolved station-id pairs, in a stable order
+
+    def station(self, sid: str) -> Station:
+        return next(s for s in self.stations if s.id == sid)
+
+    def antenna(self, aid: str) -> Antenna:
+        return next(a for a in self.antennas if a.id == aid)
+
+    @property
+    def control(self) -> Station | None:
+        return next((s for s in self.stations if s.role == "control"), None)

@@ -1,0 +1,258 @@
+"""Strict YAML reading that keeps the line and column of every node.
+
+PyYAML's safe parser produces events; this module builds its own small tree
+from them, iteratively, so that it can bound depth, aliases and size, refuse
+duplicate keys (plain PyYAML keeps the last one silently) and keep every
+scalar's raw text and quoting. Scalars are *not* typed here: the schema knows
+what each key expects and types the raw text by YAML 1.2 rules, flagging the
+places where YAML 1.1 tools would read the same text differently.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import yaml
+
+from planpack.plan.diagnostics import Collector
+
+#: Bounds that keep a hostile file from hanging or exhausting the reader.
+MAX_BYTES = 4 * 1024 * 1024
+MAX_DEPTH = 32
+MAX_ALIASES = 64
+MAX_NODES = 500_000
+
+
+@dataclass
+class Node:
+    line: int  # 1-based
+    col: int  # 1-based
+
+
+@dataclass
+class Scalar(Node):
+    raw: str
+    plain: bool  # written without quotes (so open to implicit typing)
+    tag: str | None = None
+
+
+@dataclass
+class Sequence(Node):
+    items: list[Node] = field(default_factory=list)
+
+
+@dataclass
+class Mapping(Node):
+    # key text -> (key node, value node), in file order
+    entries: dict[str, tuple[Scalar, Node]] = field(default_factory=dict)
+
+
+class ReadAbort(Exception):
+    """Reading stopped; the reason is already in the collector."""
+
+
+def _pos(mark) -> tuple[int, int]:
+    return mark.line + 1, mark.column + 1
+
+
+def decode(data: bytes, out: Collector) -> str | None:
+    """Decode the file's bytes as UTF-8, or diagnose why not."""
+    if data.startswith((b"\xff\xfe", b"\xfe\xff")) or data[:4] in (b"\x00\x00\xfe\xff", b"\xff\xfe\x00\x00"):
+        out.error("file-encoding", "", "the file is UTF-16 or UTF-32 (it starts with a byte-order mark); save it as UTF-8", None)
+        return None
+    if data.startswith(b"\xef\xbb\xbf"):
+        data = data[3:]
+    try:
+        text = data.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        before = data[: exc.start]
+        line = before.count(b"\n") + 1
+        col = exc.start - (before.rfind(b"\n") + 1) + 1
+        out.add("error", "file-encoding", "", f"the file is not valid UTF-8: byte 0x{data[exc.start]:02x} cannot start or continue a character; save the file as UTF-8", line, col)
+        return None
+    nul = text.find("\x00")
+    if nul >= 0:
+        line = text.count("\n", 0, nul) + 1
+        col = nul - (text.rfind("\n", 0, nul) + 1) + 1
+        out.add("error", "nul-byte", "", "the file contains a NUL byte; is it a binary file?", line, col)
+        return None
+    return text
+
+
+def _check_tabs(text: str, out: Collector) -> bool:
+    ok = True
+    for n, line in enumerate(text.splitlines(), 1):
+        col = line.find("\t")
+        if col >= 0:
+            out.add("error", "tab-character", "", "a tab character; YAML indentation must use spaces (replace the tab with spaces)", n, col + 1)
+            ok = False
+            if len(out.items) > 20:
+                break
+    return ok
+
+
+def compose(text: str, out: Collector) -> Node | None:
+    """Build the node tree of one YAML document, or diagnose and return None."""
+    if not _check_tabs(text, out):
+        return None
+    try:
+        return _build(yaml.parse(text, Loader=yaml.SafeLoader), out)
+    except ReadAbort:
+        return None
+    except yaml.MarkedYAMLError as exc:
+        mark = exc.problem_mark or exc.context_mark
+        line, col = _pos(mark) if mark is not None else (0, 0)
+        problem = exc.problem or exc.context or "malformed YAML"
+        out.add("error", "yaml-syntax", "", f"YAML syntax: {problem}", line, col)
+        return None
+    except yaml.YAMLError as exc:  # e.g. a reader error on a control character
+        text_ = str(exc).splitlines()[0] if str(exc) else "malformed YAML"
+        out.add("error", "yaml-syntax", "", f"YAML syntax: {text_}", 0, 0)
+        return None
+
+
+def _build(events, out: Collector) -> Node | None:
+    stack: list[tuple[Node, Scalar | None]] = []  # container, pending key for mappings
+    paths: list[str] = []  # key path of each open container, for messages
+    anchors: dict[str, Node] = {}
+    aliases = 0
+    nodes = 0
+    root: Node | None = None
+    documents = 0
+
+    def attach(node: Node) -> None:
+        nonlocal root
+        if not stack:
+            root = node
+            return
+        parent, pending = stack[-1]
+        if isinstance(parent, Sequence):
+            parent.items.append(node)
+            return
+        assert isinstance(parent, Mapping)
+        if pending is None:  # this node is a key
+            if not isinstance(node, Scalar):
+                out.add("error", "yaml-complex-key", "", "a mapping key must be a plain string, not a list or mapping", node.line, node.col)
+                raise ReadAbort
+            stack[-1] = (parent, node)
+            return
+        key = pending.raw
+        if key in parent.entries:
+            first = parent.entries[key][0]
+            where = f"{paths[-1]}.{key}" if paths[-1] else key
+            out.add("error", "duplicate-key", where,
+                    f"{where}: duplicate key '{key}' (first at line {first.line}); YAML readers keep only one of them silently — remove or rename one",
+                    pending.line, pending.col)
+        elif key == "<<" and pending.plain:
+            _merge(parent, node, pending)
+        else:
+            parent.entries[key] = (pending, node)
+        stack[-1] = (parent, None)
+
+    def _merge(target: Mapping, value: Node, key: Scalar) -> None:
+        sources = value.items if isinstance(value, Sequence) else [value]
+        for src in sources:
+            if not isinstance(src, Mapping):
+                out.add("error", "wrong-type", "<<", "a merge key '<<' must name a mapping (an alias like *defaults)", src.line, src.col)
+                continue
+            for k, pair in src.entries.items():
+                target.entries.setdefault(k, pair)
+
+    for ev in events:
+        if isinstance(ev, (yaml.StreamStartEvent, yaml.StreamEndEvent)):
+            continue
+        if isinstance(ev, yaml.DocumentStartEvent):
+            documents += 1
+            if documents > 1:
+                line, col = _pos(ev.start_mark)
+                out.add("error", "yaml-multiple-documents", "", "more than one YAML document ('---'); a plan is one document", line, col)
+                raise ReadAbort
+            continue
+        if isinstance(ev, yaml.DocumentEndEvent):
+            continue
+        line, col = _pos(ev.start_mark)
+        if isinstance(ev, yaml.AliasEvent):
+            aliases += 1
+            if aliases > MAX_ALIASES:
+                out.add("error", "yaml-aliases", "", f"more than {MAX_ALIASES} aliases; plans do not need that many (is this an alias bomb?)", line, col)
+                raise ReadAbort
+            if ev.anchor not in anchors:
+                out.add("error", "yaml-syntax", "", f"alias *{ev.anchor} names no anchor defined before it", line, col)
+                raise ReadAbort
+            target = anchors[ev.anchor]
+            nodes += _size(target)
+            if nodes > MAX_NODES:
+                out.add("error", "yaml-too-many-nodes", "", f"the aliases expand to more than {MAX_NODES} nodes (is this an alias bomb?)", line, col)
+                raise ReadAbort
+            attach(target)
+            continue
+        nodes += 1
+        if nodes > MAX_NODES:
+            out.add("error", "yaml-too-many-nodes", "", f"more than {MAX_NODES} YAML nodes; a plan is far smaller", line, col)
+            raise ReadAbort
+        tag = getattr(ev, "tag", None)
+        if tag is not None and tag not in ("!", "tag:yaml.org,2002:str"):
+            out.add("error", "yaml-tag", "", f"explicit YAML tag '{tag}'; plans do not use tags (remove it)", line, col)
+            raise ReadAbort
+        if isinstance(ev, yaml.ScalarEvent):
+            node: Node = Scalar(line, col, ev.value, plain=ev.style is None and tag is None, tag=tag)
+            if ev.anchor:
+                anchors[ev.anchor] = node
+            attach(node)
+        elif isinstance(ev, (yaml.MappingStartEvent, yaml.SequenceStartEvent)):
+            if len(stack) >= MAX_DEPTH:
+                out.add("error", "yaml-too-deep", "", f"nesting deeper than {MAX_DEPTH} levels; a plan is far shallower", line, col)
+                raise ReadAbort
+            node = Mapping(line, col) if isinstance(ev, yaml.MappingStartEvent) else Sequence(line, col)
+            if ev.anchor:
+                anchors[ev.anchor] = node
+            paths.append(_child_path(stack, paths))
+            attach(node)
+            stack.append((node, None))
+        elif isinstance(ev, (yaml.MappingEndEvent, yaml.SequenceEndEvent)):
+            stack.pop()
+            paths.pop()
+    return root
+
+
+def _child_path(stack, paths) -> str:
+    """The key path of a container about to be attached to the top of the stack."""
+    if not stack:
+        return ""
+    parent, pending = stack[-1]
+    base = paths[-1]
+    if isinstance(parent, Sequence):
+        return f"{base}[{len(parent.items)}]"
+    if pending is None:
+        return base
+    return f"{base}.{pending.raw}" if base else pending.raw
+
+
+def _size(node: Node) -> int:
+    """Count nodes below ``node`` (bounded by MAX_NODES: stops early)."""
+    total, todo = 0, [node]
+    while todo and total <= MAX_NODES:
+        n = todo.pop()
+        total += 1
+        if isinstance(n, Mapping):
+            todo.extend(v for _, v in n.entries.values())
+        elif isinstance(n, Sequence):
+            todo.extend(n.items)
+    return total
+
+
+def read_file(path: str, out: Collector) -> Node | None:
+    """Read, decode and compose a plan file; diagnose every way it can fail."""
+    try:
+        with open(path, "rb") as fh:
+            data = fh.read(MAX_BYTES + 1)
+    except OSError as exc:
+        out.error("file-unreadable", "", f"cannot read the file: {exc.strerror or exc}")
+        return None
+    if len(data) > MAX_BYTES:
+        out.error("file-too-large", "", f"the file is larger than {MAX_BYTES // (1024 * 1024)} MiB; a plan is far smaller")
+        return None
+    text = decode(data, out)
+    if text is None:
+        return None
+    return compose(text, out)
