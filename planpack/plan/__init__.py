@@ -30,6 +30,8 @@ def read_plan(path: str) -> ReadResult:
     out = Collector(path)
     root = yamlread.read_file(path, out)
     if root is None:
+        if not out.items:
+            out.error("not-a-mapping", "", "the file is empty; a plan starts with 'planpack: 1'")
         return ReadResult(None, out.sorted())
     if not isinstance(root, Mapping):
         what = "a list" if isinstance(root, yamlread.Sequence) else "a single value"
@@ -53,7 +55,7 @@ def read_plan(path: str) -> ReadResult:
         return ReadResult(None, out.sorted())
     with open(path, "rb") as fh:
         sha = hashlib.sha256(fh.read()).hexdigest()
-    return ReadResult(build(data, path, sha), out.sorted())
+    return ReadResult(build(data, path, sha, ctx.positions), out.sorted())
 
 
 def plan_files(args: list[str]) -> tuple[list[str], list[str]]:

@@ -113,6 +113,16 @@ class Plan:
     antennas: tuple[Antenna, ...]  # in file order
     modes: dict[str, Mode] = field(default_factory=dict)  # built-in merged with the plan's
     links: tuple[tuple[str, str], ...] = ()  # resolved station-id pairs, in a stable order
+    # where each key path was written, (line, column), so later passes can point at it
+    positions: dict[str, tuple[int, int]] = field(default_factory=dict, compare=False, repr=False)
+
+    def where(self, path: str) -> tuple[int, int]:
+        """(line, column) of a key path, or of its nearest written parent."""
+        while path:
+            if path in self.positions:
+                return self.positions[path]
+            path = path.rsplit(".", 1)[0] if "." in path else ""
+        return (1, 1)
 
     def station(self, sid: str) -> Station:
         return next(s for s in self.stations if s.id == sid)

@@ -33,6 +33,8 @@ _BOOL_12 = {"true": True, "True": True, "TRUE": True, "false": False, "False": F
 _NULL_12 = {"", "~", "null", "Null", "NULL"}
 _DATE = re.compile(r"([0-9]{4})-([0-9]{2})-([0-9]{2})\Z")
 _RESOLVER = yaml.resolver.Resolver()
+# Number spellings that YAML 1.1 and 1.2 readers disagree on: 0o17, 0x1F, 0b101, 017, 1_000, .inf
+_NUMBER_FORMS = re.compile(r"[-+]?(0[oxb][0-9a-fA-F_]+|0[0-9_]+|[0-9][0-9_]*_[0-9_]*(\.[0-9_]*)?|\.(inf|Inf|INF|nan|NaN|NAN))\Z")
 
 
 def yaml11_tag(raw: str) -> str:
@@ -177,10 +179,10 @@ class Number(Type):
                              f"expected {self._expect()}, got {raw}: write numbers without a comma ({raw.replace(',', '')}); YAML reads it as text", s)
         elif "," in raw and re.fullmatch(r"[-+]?[0-9]+,[0-9]+", raw):
             return ctx.error("number-comma", path, f"expected {self._expect()}, got {raw}: use a decimal point, not a comma", s)
-        elif _SEXAGESIMAL.match(raw):
+        elif _SEXAGESIMAL.match(raw) and ":" in raw:
             return ctx.error("yaml11-sexagesimal", path,
                              f"expected {self._expect()}, got {raw}, which YAML 1.1 tools read as a base-60 number; write a plain number", s)
-        elif yaml11_tag(raw).endswith((":int", ":float")):
+        elif yaml11_tag(raw).endswith((":int", ":float")) or _NUMBER_FORMS.match(raw):
             return ctx.error("yaml11-number-form", path,
                              f"expected {self._expect()}, got {raw}, which YAML versions read differently (underscores, leading zeros, 0x/0o, .inf); write a plain decimal number", s)
         else:
@@ -327,6 +329,8 @@ class Record(Type):
                 bad = True
                 continue
             sub = f"{path}.{key}" if path else key
+            if isinstance(vnode, Scalar) and vnode.plain and vnode.raw == "":
+                vnode = Scalar(knode.line, knode.col, "", plain=True)  # point at the key of an empty value
             ctx.positions[sub] = vnode
             value = self.fields[key].type.read(vnode, sub, ctx)
             if value is INVALID:

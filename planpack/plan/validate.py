@@ -216,7 +216,7 @@ def resolve_links(links, station_ids: list[str], control: str | None) -> tuple[t
     return tuple((a, b) for a, b in links)
 
 
-def build(data: dict, source: str, sha256: str) -> Plan:
+def build(data: dict, source: str, sha256: str, positions: dict | None = None) -> Plan:
     """Models from validated data (call only when no errors were found)."""
     n = data["net"]
     solar_index, solar_value = next(iter(n["solar"].items()))
@@ -266,7 +266,8 @@ def build(data: dict, source: str, sha256: str) -> Plan:
     control = next((s.id for s in stations if s.role == "control"), None)
     links = resolve_links(net.links, [s.id for s in stations], control)
     return Plan(source=source, sha256=sha256, net=net, stations=tuple(stations), channels=tuple(channels),
-                antennas=tuple(antennas), modes=modes, links=links)
+                antennas=tuple(antennas), modes=modes, links=links,
+                positions={k: (v.line, v.col) for k, v in (positions or {}).items()})
 
 
 def _f(v) -> float | None:

@@ -20,7 +20,10 @@ from planpack.plan.diagnostics import Collector
 MAX_BYTES = 4 * 1024 * 1024
 MAX_DEPTH = 32
 MAX_ALIASES = 64
-MAX_NODES = 500_000
+MAX_NODES = 100_000  # a 500-station, 200-channel plan has about 12 000
+
+# libyaml's parser when PyYAML was built with it (same events and marks, much faster).
+_LOADER = getattr(yaml, "CSafeLoader", yaml.SafeLoader)
 
 
 @dataclass
@@ -96,13 +99,16 @@ def compose(text: str, out: Collector) -> Node | None:
     if not _check_tabs(text, out):
         return None
     try:
-        return _build(yaml.parse(text, Loader=yaml.SafeLoader), out)
+        return _build(yaml.parse(text, Loader=_LOADER), out)
     except ReadAbort:
         return None
     except yaml.MarkedYAMLError as exc:
         mark = exc.problem_mark or exc.context_mark
         line, col = _pos(mark) if mark is not None else (0, 0)
         problem = exc.problem or exc.context or "malformed YAML"
+        if "nesting depth" in problem:  # libyaml's own bound, reached while scanning ahead
+            out.add("error", "yaml-too-deep", "", f"nesting deeper than {MAX_DEPTH} levels; a plan is far shallower", line, col)
+            return None
         out.add("error", "yaml-syntax", "", f"YAML syntax: {problem}", line, col)
         return None
     except yaml.YAMLError as exc:  # e.g. a reader error on a control character
@@ -195,7 +201,7 @@ def _build(events, out: Collector) -> Node | None:
             out.add("error", "yaml-tag", "", f"explicit YAML tag '{tag}'; plans do not use tags (remove it)", line, col)
             raise ReadAbort
         if isinstance(ev, yaml.ScalarEvent):
-            node: Node = Scalar(line, col, ev.value, plain=ev.style is None and tag is None, tag=tag)
+            node: Node = Scalar(line, col, ev.value, plain=not ev.style and tag is None, tag=tag)
             if ev.anchor:
                 anchors[ev.anchor] = node
             attach(node)

@@ -1,0 +1,126 @@
+"""Exit codes and output streams of `planpack check` and `planpack schema`, through the real command line."""
+
+from __future__ import annotations
+
+import json
+import os
+import subprocess
+import sys
+
+import pytest
+
+from tests.plan.conftest import BASE
+
+ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
+
+
+def run(*args, env=None):
+    e = dict(os.environ, **(env or {}))
+    return subprocess.run([sys.executable, "-m", "planpack", *args], capture_output=True, text=True, cwd=ROOT, env=e, timeout=300)
+
+
+@pytest.fixture
+def plans(tmp_path):
+    good = tmp_path / "good.yaml"
+    good.write_text(BASE)
+    bad = tmp_path / "bad.yaml"
+    bad.write_text(BASE.replace("power_w: 20", "power_w: 1,000"))
+    warn = tmp_path / "warn.yaml"
+    warn.write_text(BASE.replace("antennas:\n", "antennas:\n  spare:\n    kind: whip\n    length_m: 3\n    height_m: 1\n"))
+    return good, bad, warn
+
+
+def test_clean_plan_exits_0(plans):
+    r = run("check", "--no-analysis", str(plans[0]))
+    assert r.returncode == 0, r.stderr
+    assert r.stdout == ""
+
+
+def test_plan_with_errors_exits_1_and_prints_position(plans):
+    r = run("check", "--no-analysis", str(plans[1]))
+    assert r.returncode == 1
+    line = BASE.splitlines().index("    power_w: 20") + 1
+    assert f"{plans[1]}:{line}:14: error number-comma: stations.ridge.power_w" in r.stderr
+    assert "Traceback" not in r.stderr
+
+
+def test_warnings_pass_unless_strict(plans):
+    assert run("check", "--no-analysis", str(plans[2])).returncode == 0
+    assert run("check", "--no-analysis", "--strict", str(plans[2])).returncode == 1
+
+
+def test_missing_file_exits_2(tmp_path):
+    r = run("check", str(tmp_path / "absent.yaml"))
+    assert r.returncode == 2 and "no such file" in r.stderr and "Traceback" not in r.stderr
+
+
+def test_bad_usage_exits_2():
+    assert run("check").returncode == 2
+    assert run("frobnicate").returncode == 2
+
+
+def test_help_exits_0():
+    r = run("check", "--help")
+    assert r.returncode == 0 and "--format" in r.stdout
+
+
+def test_json_format(plans):
+    r = run("check", "--no-analysis", "--format", "json", str(plans[1]), str(plans[0]))
+    assert r.returncode == 1
+    data = json.loads(r.stdout)
+    assert {tuple(sorted(d)) for d in data} == {("code", "column", "file", "key", "line", "message", "severity")}
+    assert data[0]["code"] == "number-comma" and data[0]["key"] == "stations.ridge.power_w"
+
+
+def test_directory_checks_every_yaml_sorted(plans, tmp_path):
+    r = run("check", "--no-analysis", "--format", "json", str(tmp_path))
+    files = [d["file"] for d in json.loads(r.stdout)]
+    assert files == sorted(files) and str(plans[1]) in files and str(plans[2]) in files
+
+
+def test_no_colour_when_not_a_terminal(plans):
+    r = run("check", "--no-analysis", str(plans[1]))
+    assert "\x1b[" not in r.stderr
+
+
+def test_demo_plans_check_clean():
+    r = run("check", "plans/")
+    assert r.returncode == 0, r.stderr
+
+
+def test_schema_prints_json_schema():
+    r = run("schema")
+    assert r.returncode == 0
+    assert json.loads(r.stdout)["title"] == "planpack net plan"
+
+
+def test_internal_error_is_one_line(plans, monkeypatch):
+    from planpack import cli
+
+    def boom(args):
+        raise RuntimeError("simulated")
+
+    monkeypatch.setattr(cli, "cmd_codes", boom)
+    parser_main = cli.main
+    import io
+    import contextlib
+
+    err = io.StringIO()
+    monkeypatch.setattr(cli, "build_parser", _parser_with(cli, boom))
+    with contextlib.redirect_stderr(err):
+        code = parser_main(["codes"])
+    assert code == 3
+    assert "internal error" in err.getvalue() and "Traceback" not in err.getvalue()
+    assert len(err.getvalue().strip().splitlines()) == 1
+
+
+def _parser_with(cli, func):
+    original = cli.build_parser
+
+    def build():
+        p = original()
+        for action in p._subparsers._group_actions:
+            action.choices["codes"].set_defaults(func=func)
+        return p
+
+    return build
