@@ -278,8 +278,13 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
     utc = schedule.format_hours(hours)
     pretty = ", ".join(f"{a}–{b}" for a, b in (links[i] for i in d["links"]))
     win = d["window_mhz"]
+    inside = [] if win is None else [c for c in plan.channels if win[0] <= c.mhz <= win[1]]
     if d["reason"] == schedule.NOT_AUTHORISED:
         extra = "; " + ", ".join(ch_ids[c] for c in d["channels_outside_hours"]) + " would, but is not authorised then"
+    elif win is not None and inside:
+        extra = (f"; {', '.join(c.id for c in inside)} lie{'s' if len(inside) == 1 else ''} in the usable window "
+                 f"{win[0]:.1f}-{win[1]:.1f} MHz but fall{'s' if len(inside) == 1 else ''} short of the target on too many days: "
+                 f"more power, a better-matched antenna or a quieter receiving site would help more than another channel")
     elif win is not None:
         extra = f"; a channel between {win[0]:.1f} and {win[1]:.1f} MHz would"
     else:
@@ -321,15 +326,20 @@ def _scan_list(st: dict, station_ids: list[str], ch_ids: list[str]) -> dict:
 def _antenna_warnings(plan: Plan, setup: StationAntennas, pred: LinkPredictions, out: Collector) -> None:
     """SWR above 3:1 on a channel, dipoles outside the NVIS window on an NVIS net, whips alone on one."""
     nvis_net = len(plan.links) > 0 and float(np.max(pred.distance_km)) < NVIS_RANGE_KM
-    by_freq = {c.khz: c for c in plan.channels}
     for ant in plan.antennas:
         result = setup.primary[ant.id]
         at = _At(*plan.where(f"antennas.{ant.id}"))
-        for w in result.warnings:
-            if w["code"] == "swr-above-3":
-                c = by_freq.get(w["freq_khz"])
+        loss, matched = setup.loss(ant.id, result)
+        if ant.kind != "whip":
+            device = {"set-tuner": "the set's tuner", "wide-tuner": "the wide-range tuner",
+                      "feedpoint-coupler": "the feed-point coupler"}[ant.matching]
+            poor = [i for i, c in enumerate(plan.channels) if not matched[i] or result.swr[i] > 3.0]
+            if poor:
+                parts = [f"{plan.channels[i].id} {result.swr[i]:.1f}:1" + ("" if matched[i] else " (beyond " + device + ")")
+                         + f", {loss[i]:.1f} dB lost" for i in poor]
                 out.warning("swr-high", f"antennas.{ant.id}",
-                            f"antennas.{ant.id}: on {c.id if c else ''} {w['message']}", at)
+                            f"antennas.{ant.id}: SWR above 3:1 on {len(poor)} of {len(plan.channels)} channels: " + "; ".join(parts)
+                            + ". A tuner may match it, but the power shown is lost", at)
         nv = result.nvis_window or {}
         if nvis_net and nv.get("applies") and nv.get("inside") is False:
             out.warning("nvis-height", f"antennas.{ant.id}.height_m",

@@ -15,6 +15,7 @@ import numpy as np
 
 from planpack.antennas import (AntennaAnalysis, AntennaDesign, AntennaInputError, AntennaSolveError, GroundSpec,
                                analyse_antennas, station_exposure)
+from planpack.antennas.matching import MATCHING, system_loss_db
 from planpack.plan.diagnostics import Collector
 from planpack.plan.models import Antenna, Plan, Station
 
@@ -44,11 +45,22 @@ class StationAntennas:
     by_station: dict[tuple[str, str], AntennaAnalysis]
     primary: dict[str, AntennaAnalysis]  # antenna id -> analysis over its first station's ground
     primary_station: dict[str, str | None]
+    antennas: dict[str, Antenna]
+
+    def loss(self, antenna_id: str, result: AntennaAnalysis) -> tuple[np.ndarray, np.ndarray]:
+        """(c,) loss from the set to the antenna [dB] and whether it is matched, with the plan's matching."""
+        if result.kind == "whip":  # the set's tuner at the base: the antenna package's own model
+            return np.asarray(result.system_loss_db), np.ones(len(result.freqs_khz), bool)
+        return system_loss_db(self.antennas[antenna_id].matching, result.swr, result.mismatch_loss_db,
+                              result.feedline_loss_db, result.feedline_loss_with_swr_db)
 
     def gain_table(self, station: Station) -> np.ndarray:
-        """(c, 91) system gain [dBi] of the station's best antenna per channel and elevation."""
-        tables = [self.by_station[(station.id, a)].system_gain_table_dbi for a in station.antennas]
-        return np.maximum.reduce(tables) if len(tables) > 1 else np.asarray(tables[0])
+        """(c, 91) gain [dBi] from the set's output, of the station's best antenna per channel and elevation."""
+        tables = []
+        for a in station.antennas:
+            r = self.by_station[(station.id, a)]
+            tables.append(np.asarray(r.gain_table_dbi) - self.loss(a, r)[0][:, None])
+        return np.maximum.reduce(tables) if len(tables) > 1 else tables[0]
 
     def vertical(self, station: Station, kinds: dict[str, str]) -> bool:
         """True when the station's antennas are all whips (vertical polarisation for the ground wave)."""
@@ -59,6 +71,13 @@ class StationAntennas:
         for a in plan.antennas:
             res = self.primary[a.id]
             d = res.to_dict(channel_ids)
+            loss, matched = self.loss(a.id, res)
+            d["matching"] = {"kind": a.matching if a.kind != "whip" else "set-tuner",
+                             "max_swr": MATCHING[a.matching][0] if a.kind != "whip" else None,
+                             "basis": "matching ranges and losses are typical figures (common practice, no source)"}
+            for ch, l_db, m in zip(d["channels"], loss, matched):
+                ch["system_loss_db"] = round(float(l_db), 2)
+                ch["matched"] = bool(m)
             users = [s for s in plan.stations if a.id in s.antennas]
             d = {"id": a.id, "stations": [s.id for s in users], **d}
             d["solved_over"] = {"station": self.primary_station[a.id], "soil": res.ground.soil,
@@ -117,7 +136,7 @@ def solve_station_antennas(plan: Plan, out: Collector) -> StationAntennas | None
         if a not in primary:
             primary[a] = r
             primary_station[a] = s
-    return StationAntennas(by_station, primary, primary_station)
+    return StationAntennas(by_station, primary, primary_station, {a.id: a for a in plan.antennas})
 
 
 def _workers(distinct: int) -> int:

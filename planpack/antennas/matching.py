@@ -85,3 +85,43 @@ def line_loss_with_swr_db(matched_db: np.ndarray, gamma_load: np.ndarray) -> np.
     a = 10.0 ** (np.asarray(matched_db, float) / 10.0)
     m2 = np.minimum(np.abs(gamma_load) ** 2, 1.0 - 1e-12)
     return 10.0 * np.log10((a * a - m2) / (a * (1.0 - m2)))  # [2]
+
+
+#: How a station matches a wire antenna to its set, and what that costs.
+#: (largest SWR it matches [-], where the match is made, its own loss [dB]).
+#: Matching ranges and losses are typical figures (common practice, no source).
+MATCHING = {
+    "set-tuner": (SWR_TUNER_MAX, "set", 0.0),       # the set's built-in tuner
+    "wide-tuner": (10.0, "set", 0.5),               # an external wide-range tuner at the set
+    "feedpoint-coupler": (30.0, "feed", 1.0),       # an automatic coupler at the antenna's feed point
+}
+
+
+def system_loss_db(matching: str, swr_value, mismatch_db, matched_line_db, line_with_swr_db):
+    """Loss between the set's output and the antenna's feed point [dB], per channel.
+
+    Within the matching device's range the set sees a match: the loss is the
+    device's own loss plus the feedline's (with the antenna's SWR on it when
+    the match is made at the set; matched when it is made at the feed point).
+    Outside it, nothing matches the antenna and the mismatch loss stands,
+    as the antenna package computes it without a tuner.
+
+    Parameters
+    ----------
+    matching : str
+        A key of :data:`MATCHING`.
+    swr_value, mismatch_db, matched_line_db, line_with_swr_db : array (c,)
+        SWR [-], mismatch loss, matched feedline loss and feedline loss with
+        that SWR [dB].
+
+    Returns
+    -------
+    (loss_db, matched) : arrays (c,)
+        Loss [dB] and whether the device matches the antenna on the channel.
+    """
+    max_swr, where, own_db = MATCHING[matching]
+    swr_value = np.asarray(swr_value, float)
+    matched = swr_value <= max_swr
+    line = np.asarray(line_with_swr_db if where == "set" else matched_line_db, float)
+    unmatched = np.asarray(mismatch_db, float) + np.asarray(matched_line_db, float)
+    return np.where(matched, line + own_db, unmatched), matched

@@ -78,6 +78,7 @@ class Antenna:
     resistor_ohm: float | None
     transformer_ratio: float | None
     feedline: Feedline | None
+    matching: str = "set-tuner"  # how the set is matched to a wire antenna (whips: the set's tuner at the base)
 
 
 @dataclass(frozen=True)

@@ -257,6 +257,7 @@ def build(data: dict, source: str, sha256: str, positions: dict | None = None) -
             spacing_m=_f(a.get("spacing_m")), resistor_ohm=_f(a.get("resistor_ohm")),
             transformer_ratio=_f(a.get("transformer_ratio")),
             feedline=None if fl is None else Feedline(float(fl["z0_ohm"]), float(fl["length_m"]), float(fl["loss_db_per_100m_at_10mhz"])),
+            matching=a["matching"],
         ))
     modes = dict(BUILTIN_MODES)
     for mid, m in data.get("modes", {}).items():
