@@ -69,26 +69,15 @@ def read_all(paths: list[str]):
     return [read_plan(f) for f in files]
 
 
-def analysis_diagnostics(result):
-    """Warnings that need the compiled plan (gaps, antenna checks)."""
-    from planpack.compile import compile_plan
-
-    compiled = compile_plan(result.plan)
-    return compiled, compiled.diagnostics
-
-
 def cmd_check(args) -> int:
     results = read_all(args.plans)
     diags = []
     for r in results:
         diags += r.diagnostics
         if r.ok and not args.no_analysis:
-            try:
-                from planpack import compile as _compile  # noqa: F401
-            except ImportError:
-                continue
-            _, more = analysis_diagnostics(r)
-            diags += more
+            from planpack.compile import compile_plan
+
+            diags += compile_plan(r.plan).diagnostics
     print_diagnostics(diags, args.format)
     if args.format == "text" and not args.quiet:
         errors = sum(d.severity == "error" for d in diags)

@@ -94,33 +94,21 @@ def test_schema_prints_json_schema():
     assert json.loads(r.stdout)["title"] == "planpack net plan"
 
 
-def test_internal_error_is_one_line(plans, monkeypatch):
+def test_internal_error_is_one_line(monkeypatch, capsys):
     from planpack import cli
 
     def boom(args):
         raise RuntimeError("simulated")
 
     monkeypatch.setattr(cli, "cmd_codes", boom)
-    parser_main = cli.main
-    import io
-    import contextlib
-
-    err = io.StringIO()
-    monkeypatch.setattr(cli, "build_parser", _parser_with(cli, boom))
-    with contextlib.redirect_stderr(err):
-        code = parser_main(["codes"])
-    assert code == 3
-    assert "internal error" in err.getvalue() and "Traceback" not in err.getvalue()
-    assert len(err.getvalue().strip().splitlines()) == 1
+    assert cli.main(["codes"]) == cli.EXIT_INTERNAL
+    err = capsys.readouterr().err
+    assert "internal error" in err and "Traceback" not in err
+    assert len(err.strip().splitlines()) == 1
 
 
-def _parser_with(cli, func):
-    original = cli.build_parser
-
-    def build():
-        p = original()
-        for action in p._subparsers._group_actions:
-            action.choices["codes"].set_defaults(func=func)
-        return p
-
-    return build
+def test_check_prints_analysis_warnings_for_demo():
+    r = run("check", "plans/danube-relief.yaml")
+    assert r.returncode == 0
+    assert "warning channel-gap" in r.stderr and "warning wasted-channel" in r.stderr
+    assert run("check", "--strict", "plans/danube-relief.yaml").returncode == 1
