@@ -20,7 +20,7 @@ from planpack.plan.diagnostics import Collector
 from planpack.plan.models import Antenna, Plan, Station
 
 #: Ground for an antenna that no station uses (it still gets a cut sheet).
-DEFAULT_GROUND = GroundSpec("medium-dry", "rods")
+DEFAULT_GROUND = GroundSpec("medium-dry", "none")
 
 
 def design_of(a: Antenna) -> AntennaDesign:
@@ -34,8 +34,10 @@ def design_of(a: Antenna) -> AntennaDesign:
     )
 
 
-def ground_of(s: Station) -> GroundSpec:
-    return GroundSpec(s.ground.soil, s.ground.system)
+def ground_of(s: Station, kind: str) -> GroundSpec:
+    """The ground under a station's antenna; the ground system matters only to a whip (wire antennas are
+    balanced and fed through a balun), so wire antennas share one solution per soil."""
+    return GroundSpec(s.ground.soil, s.ground.system if kind == "whip" else "none")
 
 
 @dataclass(frozen=True)
@@ -114,7 +116,7 @@ def solve_station_antennas(plan: Plan, out: Collector) -> StationAntennas | None
     used = {a for _, a in jobs}
     jobs += [(None, a.id) for a in plan.antennas if a.id not in used]
     stations = {s.id: s for s in plan.stations}
-    specs = [(designs[a], ground_of(stations[s]) if s else DEFAULT_GROUND, freqs) for s, a in jobs]
+    specs = [(designs[a], ground_of(stations[s], designs[a].kind) if s else DEFAULT_GROUND, freqs) for s, a in jobs]
     try:
         results = analyse_antennas(specs, workers=_workers(len({(d, g) for d, g, _ in specs})))
     except (AntennaInputError, AntennaSolveError) as exc:
