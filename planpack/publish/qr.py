@@ -1,0 +1,106 @@
+"""QR codes on the cards: what they carry, and drawing them as plain squares.
+
+The code is drawn as filled rectangles (no text, no font of any kind), with
+the four-module quiet zone the QR standard (ISO/IEC 18004) asks for.
+"""
+
+from __future__ import annotations
+
+import qrcode
+import qrcode.constants
+
+QUIET_MODULES = 4  # ISO/IEC 18004 quiet zone
+
+
+def net_page_url(base_url: str, net_id: str) -> str:
+    """The net's page on the site: base_url, then the net id and a slash."""
+    return base_url.rstrip("/") + "/" + net_id + "/"
+
+
+def _runs(hours: list[dict]) -> list[tuple[int, int, str | None]]:
+    """Runs of equal first channel over the UTC day: (first hour, last hour, channel)."""
+    out: list[tuple[int, int, str | None]] = []
+    for h in hours:
+        if out and out[-1][2] == h["first"]:
+            out[-1] = (out[-1][0], h["utc_hour"], h["first"])
+        else:
+            out.append((h["utc_hour"], h["utc_hour"], h["first"]))
+    return out
+
+
+def hour_spans(hours: list[int]) -> str:
+    """UTC hours as spans, wrapping midnight: [0, 1, 2, 22, 23] -> "22-02"."""
+    hs = sorted(set(hours))
+    if not hs:
+        return ""
+    runs: list[list[int]] = []
+    for h in hs:
+        if runs and h == runs[-1][1] + 1:
+            runs[-1][1] = h
+        else:
+            runs.append([h, h])
+    if len(runs) > 1 and runs[0][0] == 0 and runs[-1][1] == 23:
+        runs[0][0] = runs[-1][0]
+        runs.pop()
+    return ", ".join(f"{a:02d}" if a == b else f"{a:02d}-{b:02d}" for a, b in runs)
+
+
+def offline_text(data: dict, station: dict | None) -> str:
+    """What the code carries when the plan has no base_url: the revision and the key figures.
+
+    One line per item, plain ASCII-safe text a phone shows as is.
+    """
+    net = data["net"]
+    lines = [f"planpack net {net['id']} rev {data['revision']['id']}",
+             f"valid {net['valid']['from']} to {net['valid']['to']}"]
+    if station is not None:
+        lines.append(f"station {station['id']} self {station['address']}")
+    if net.get("net_address"):
+        lines.append(f"net address {net['net_address']}")
+    kinds = {c["id"]: c for c in data["channels"]}
+    parts = []
+    for a, b, ch in _runs(data["net_schedule"]["hours"]):
+        span = f"{a:02d}" if a == b else f"{a:02d}-{b:02d}"
+        parts.append(f"{span} {ch} {kinds[ch]['freq_khz']:g}" if ch else f"{span} none")
+    lines.append("UTC first: " + ", ".join(parts))
+    return "\n".join(lines)
+
+
+def payload(data: dict, station: dict | None) -> str:
+    base = data["net"].get("base_url")
+    if base:
+        return net_page_url(base, data["net"]["id"])
+    return offline_text(data, station)
+
+
+def matrix(text: str) -> list[list[bool]]:
+    """The QR modules (True = dark), quiet zone included."""
+    code = qrcode.QRCode(error_correction=qrcode.constants.ERROR_CORRECT_M, border=QUIET_MODULES, box_size=1)
+    code.add_data(text.encode("utf-8"))
+    code.make(fit=True)
+    return code.get_matrix()
+
+
+def draw(canvas, text: str, x: float, y: float, size: float) -> None:
+    """Draw the QR code for text with its lower-left corner at (x, y), size x size points.
+
+    Each dark row run is one rectangle, so the drawing is small and has no seams.
+    """
+    m = matrix(text)
+    n = len(m)
+    cell = size / n
+    canvas.saveState()
+    canvas.setFillGray(1)
+    canvas.rect(x, y, size, size, stroke=0, fill=1)
+    canvas.setFillGray(0)
+    for r, row in enumerate(m):
+        c = 0
+        while c < n:
+            if row[c]:
+                start = c
+                while c < n and row[c]:
+                    c += 1
+                canvas.rect(x + start * cell, y + size - (r + 1) * cell, (c - start) * cell, cell, stroke=0, fill=1)
+            else:
+                c += 1
+    canvas.restoreState()

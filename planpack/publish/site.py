@@ -1,0 +1,921 @@
+"""The static site: compiled plans in, ``{relative path: bytes}`` out.
+
+Pure: reads only the compiled plans' ``data`` dicts (what ``plan.json``
+holds), formats figures for reading, and fills the jinja2 templates in
+``site_templates/``. It never recomputes physics and never touches the disk
+except to read its templates; :mod:`planpack.publish.output` writes the result.
+
+Each page's template gets one typed context (a dataclass below) built from the
+data dict; every string from the plan goes through jinja2's autoescaping.
+The same input always gives the same bytes: files are produced in sorted
+order, numbers with fixed precision, and no clock is read (a date is shown
+only from the plan's revision or ``SOURCE_DATE_EPOCH``).
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+import hashlib
+import json
+import os
+import re
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from planpack.publish import charts
+
+TEMPLATES = Path(__file__).resolve().parents[2] / "site_templates"
+ASSETS = ("site.css",)
+CSP = "default-src 'none'; style-src 'self'; img-src 'self' data:; base-uri 'none'; form-action 'none'"
+
+KIND_LABEL = {
+    "dipole": "Half-wave dipole",
+    "inverted-v": "Inverted V dipole",
+    "dipole-reflector": "Dipole over a reflector wire",
+    "folded-terminated": "Folded terminated dipole (broadband)",
+    "whip": "Vertical whip",
+}
+CUT_LABEL = {
+    "total_m": "Radiator, tip to tip",
+    "leg_m": "Each leg, feed point to tip",
+    "leg_cut_with_extra_m": "Each leg as cut, with extra for the loops",
+    "total_cut_with_extra_m": "Radiator as cut, with extra for the loops",
+    "reflector_m": "Reflector wire",
+    "reflector_cut_with_extra_m": "Reflector as cut, with extra for the loops",
+    "reflector_below_m": "Reflector below the radiator",
+    "reflector_height_m": "Reflector above ground",
+    "end_height_m": "Leg ends above ground",
+    "min_end_height_m": "Lowest allowed end height",
+    "spacing_m": "Spacing of the two wires",
+    "end_allowance_m": "Extra at each end for loops and insulators",
+    "rule_of_thumb_total_m": "Rule-of-thumb total, for comparison",
+    "rule_of_thumb_leg_m": "Rule-of-thumb leg, for comparison",
+}
+
+
+# ----------------------------------------------------------------- formatting
+
+def json_bytes(data: dict) -> bytes:
+    """plan.json exactly as the contract writes it."""
+    return (json.dumps(data, indent=2, sort_keys=True, ensure_ascii=False) + "\n").encode("utf-8")
+
+
+def safe_name(text: str) -> str:
+    """A file-name part from a plan id: the id when it is plain, else a stable hash of it."""
+    if re.fullmatch(r"[A-Za-z0-9][A-Za-z0-9_-]{0,79}", text):
+        return text
+    return "x" + hashlib.sha256(text.encode("utf-8")).hexdigest()[:16]
+
+
+def num(x: float | None, digits: int = 1) -> str:
+    if x is None:
+        return "–"
+    s = f"{x:.{digits}f}"
+    return s[1:] if s.startswith("-") and float(s) == 0 else s
+
+
+def khz_text(x: float) -> str:
+    return f"{x:.0f}" if float(x).is_integer() else f"{x:.1f}"
+
+
+def pct(x: float | None) -> str:
+    return "–" if x is None else f"{round(x * 100):d} %"
+
+
+def hour_ranges(hours: list[int]) -> str:
+    """[1, 2, 3, 7] -> '01–03, 07' (hours, each one hour long)."""
+    out, run = [], []
+    for h in sorted(set(hours)):
+        if run and h == run[-1] + 1:
+            run.append(h)
+        else:
+            if run:
+                out.append(run)
+            run = [h]
+    if run:
+        out.append(run)
+    return ", ".join(f"{r[0]:02d}" if len(r) == 1 else f"{r[0]:02d}–{r[-1]:02d}" for r in out)
+
+
+def local_ranges(times: list[str]) -> str:
+    hours = [int(t[:2]) for t in times if re.fullmatch(r"\d\d:\d\d", t)]
+    return hour_ranges(hours) if len(hours) == len(times) else ", ".join(times)
+
+
+def feet_inches(length_m: float) -> str:
+    """Fallback only, when the plan carries no feet-and-inches text: nearest quarter inch."""
+    quarters = round(length_m / 0.3048 * 48)
+    feet, rest = divmod(quarters, 48)
+    inches, q = divmod(rest, 4)
+    return f"{feet} ft {inches}{['', ' 1/4', ' 1/2', ' 3/4'][q]} in"
+
+
+def css_string(text: str) -> str:
+    """A CSS string literal that cannot end early or break out of the rule."""
+    out = []
+    for ch in text:
+        if ch in '"\\<>{};/*' or ord(ch) < 0x20 or ord(ch) == 0x7F:
+            out.append(f"\\{ord(ch):x} ")
+        else:
+            out.append(ch)
+    return '"' + "".join(out) + '"'
+
+
+def http_url(url: object) -> str | None:
+    """The URL if it is plain http(s), else None: nothing else may reach an href."""
+    if isinstance(url, str) and re.match(r"https?://[^\s\"'<>\\]+$", url):
+        return url
+    return None
+
+
+def markdown_html(text: str | None):
+    """Standing instructions from Markdown; raw HTML off, images off (they would fetch)."""
+    if not text:
+        return None
+    from markdown_it import MarkdownIt
+    from markupsafe import Markup
+
+    md = MarkdownIt("commonmark", {"html": False}).disable("image")
+    return Markup(md.render(text))
+
+
+def shown_date(revision: dict) -> str | None:
+    if revision.get("date"):
+        return str(revision["date"])
+    epoch = os.environ.get("SOURCE_DATE_EPOCH")
+    if epoch and epoch.strip().isdigit():
+        return dt.datetime.fromtimestamp(int(epoch), dt.timezone.utc).date().isoformat()
+    return None
+
+
+# ------------------------------------------------------------------ contexts
+
+@dataclass(frozen=True)
+class NavItem:
+    href: str
+    label: str
+    current: bool = False
+
+
+@dataclass(frozen=True)
+class Frame:
+    """What every page shows around its content."""
+    page_title: str
+    heading: str
+    root: str                      # relative path back to the site root: '' or '../'
+    css: tuple[str, ...]
+    marking: str | None
+    nav: tuple[NavItem, ...]
+    canonical: str | None
+    revision: str
+    generator: str
+    date: str | None
+    safety_href: str | None
+    csp: str = CSP
+
+
+@dataclass(frozen=True)
+class NetSummary:
+    href: str
+    title: str
+    net_id: str
+    valid: str
+    handling: str | None
+    stations: int
+    channels: int
+    links: int
+    warnings: int
+
+
+@dataclass(frozen=True)
+class IndexPage:
+    frame: Frame
+    nets: tuple[NetSummary, ...]
+
+
+@dataclass(frozen=True)
+class ChannelRef:
+    id: str
+    khz: str
+    mode: str
+
+    @property
+    def text(self) -> str:
+        return f"{self.id} {self.khz} kHz"
+
+
+@dataclass(frozen=True)
+class StationRow:
+    id: str
+    anchor: str
+    name: str
+    address: str
+    role: str
+    lat: str
+    lon: str
+    grid: str
+    power: str
+    antennas: tuple[NavItem, ...]
+    ground: str
+    noise: str
+    sun: str
+
+
+@dataclass(frozen=True)
+class ChannelRow:
+    id: str
+    khz: str
+    mode: str
+    hours: str
+    note: str
+    snr: str
+    bandwidth: str
+
+
+@dataclass(frozen=True)
+class LinkRow:
+    id: str
+    href: str
+    a: str
+    b: str
+    distance: str
+    azimuth: str
+    hops: str
+    gap_hours: str
+
+
+@dataclass(frozen=True)
+class WarningRow:
+    severity: str
+    code: str
+    where: str
+    message: str
+
+
+@dataclass(frozen=True)
+class KeyValue:
+    key: str
+    value: str
+
+
+@dataclass(frozen=True)
+class OverviewPage:
+    frame: Frame
+    title: str
+    net_id: str
+    handling: str | None
+    valid: str
+    timezone: str
+    net_address: str
+    control: str
+    target: str
+    facts: tuple[KeyValue, ...]
+    assumptions: tuple[KeyValue, ...]
+    methods: tuple[KeyValue, ...]
+    not_modelled: tuple[str, ...]
+    notes: tuple[str, ...]
+    stations: tuple[StationRow, ...]
+    channels: tuple[ChannelRow, ...]
+    links: tuple[LinkRow, ...]
+    map_src: str
+    map_alt: str
+    warnings: tuple[WarningRow, ...]
+    cards: tuple[NavItem, ...]
+
+
+@dataclass(frozen=True)
+class HourRow:
+    local: str
+    utc: str
+    first: ChannelRef | None
+    first_good: str
+    second: ChannelRef | None
+    second_good: str
+    note: str
+    gap: bool
+    short: bool  # a channel, but it works on fewer days than the plan's target
+
+
+@dataclass(frozen=True)
+class GapRow:
+    links: tuple[NavItem, ...]
+    local: str
+    utc: str
+    window: str
+    message: str
+
+
+@dataclass(frozen=True)
+class SchedulePage:
+    frame: Frame
+    timezone: str
+    changes: str
+    target: str
+    rows: tuple[HourRow, ...]
+    gaps: tuple[GapRow, ...]
+    links: tuple[LinkRow, ...]
+
+
+@dataclass(frozen=True)
+class LinkHourRow:
+    local: str
+    utc: str
+    muf: str
+    owf: str
+    luf: str
+    first: ChannelRef | None
+    first_good: str
+    second: ChannelRef | None
+    second_good: str
+    working: str
+    gap: bool
+    short: bool
+
+
+@dataclass(frozen=True)
+class LinkPage:
+    frame: Frame
+    link: LinkRow
+    timezone: str
+    target: str
+    chart_src: str
+    chart_alt: str
+    rows: tuple[LinkHourRow, ...]
+    gaps: tuple[GapRow, ...]
+
+
+@dataclass(frozen=True)
+class ScanGroup:
+    name: str
+    hours: str
+    channels: str
+    period: str
+    call: str
+
+
+@dataclass(frozen=True)
+class ScanRow:
+    station: str
+    anchor: str
+    groups: tuple[ScanGroup, ...]
+    wasted: str
+    split: bool
+    note: str
+
+
+@dataclass(frozen=True)
+class ScanPage:
+    frame: Frame
+    lists: tuple[ScanRow, ...]
+    instructions: object  # markupsafe.Markup from markdown-it-py, or None
+
+
+@dataclass(frozen=True)
+class CutRow:
+    label: str
+    metres: str
+    feet: str
+
+
+@dataclass(frozen=True)
+class SwrRow:
+    channel: str
+    khz: str
+    impedance: str
+    swr: str
+    swr_class: str
+    mismatch: str
+    feedline: str
+
+
+@dataclass(frozen=True)
+class ExposureRow:
+    station: str
+    antenna: str
+    general: str
+    occupational: str
+
+
+@dataclass(frozen=True)
+class AntennaSummary:
+    href: str
+    id: str
+    kind: str
+    stations: str
+    worst: str
+
+
+@dataclass(frozen=True)
+class AntennaIndexPage:
+    frame: Frame
+    antennas: tuple[AntennaSummary, ...]
+
+
+@dataclass(frozen=True)
+class AntennaPage:
+    frame: Frame
+    id: str
+    kind: str
+    stations: tuple[NavItem, ...]
+    facts: tuple[KeyValue, ...]
+    cut: tuple[CutRow, ...]
+    sketch_src: str
+    sketch_alt: str
+    swr_src: str | None
+    swr_alt: str
+    swr: tuple[SwrRow, ...]
+    pattern_src: str | None
+    pattern_alt: str
+    pattern: tuple[KeyValue, ...]
+    exposure: tuple[ExposureRow, ...]
+    notes: tuple[str, ...]
+    method: tuple[KeyValue, ...]
+
+
+@dataclass(frozen=True)
+class GroundRow:
+    station: str
+    soil: str
+    system: str
+    instruction: str
+
+
+@dataclass(frozen=True)
+class SafetyPage:
+    frame: Frame
+    cautions: tuple[KeyValue, ...]
+    deferral: str
+    exposure: tuple[ExposureRow, ...]
+    ground: tuple[GroundRow, ...]
+
+
+# ------------------------------------------------------------- building pages
+
+FALLBACK_CAUTIONS = (
+    KeyValue("power lines", "Never put up a mast or throw a wire where it could fall onto or touch a power line."),
+    KeyValue("RF exposure", "Keep people away from antennas while transmitting; keep the distances this plan gives."),
+    KeyValue("lightning", "Disconnect and ground feedlines when a storm approaches; do not operate during lightning."),
+)
+FALLBACK_DEFERRAL = ("These notes are reminders, not a substitute for local electrical and building codes, "
+                     "the equipment manufacturers' manuals and licensed practice; where they differ, follow those.")
+
+
+@dataclass
+class _Net:
+    """One net's data with the lookups the pages share."""
+    data: dict
+    extra_warnings: list[dict] = field(default_factory=list)
+    cards: tuple[str, ...] = ()
+
+    @property
+    def id(self) -> str:
+        return self.data["net"]["id"]
+
+    @property
+    def dir(self) -> str:
+        return safe_name(self.id)
+
+    def channel(self, cid: str | None) -> ChannelRef | None:
+        if cid is None:
+            return None
+        c = next((c for c in self.data["channels"] if c["id"] == cid), None)
+        if c is None:
+            return ChannelRef(cid, "?", "?")
+        return ChannelRef(cid, khz_text(c["freq_khz"]), str(c["mode"]).upper())
+
+    def warnings(self) -> list[dict]:
+        seen, out = set(), []
+        for d in list(self.data.get("diagnostics") or []) + self.extra_warnings:
+            key = (d.get("file"), d.get("line"), d.get("column"), d.get("code"), d.get("message"))
+            if key not in seen:
+                seen.add(key)
+                out.append(d)
+        return sorted(out, key=lambda d: (str(d.get("file")), d.get("line") or 0, d.get("column") or 0,
+                                          str(d.get("code")), str(d.get("message"))))
+
+    @property
+    def target(self) -> float:
+        return float(self.data["net"].get("target_good_days", 0.9))
+
+    def valid(self) -> str:
+        v = self.data["net"]["valid"]
+        return f"{v['from']} to {v['to']}"
+
+
+def _frame(net: _Net | None, *, page: str, title: str, heading: str, root: str, marking: str | None,
+           revision: dict | None, generator: dict | None, base_url: str | None) -> Frame:
+    nav: list[NavItem] = []
+    if net is not None:
+        items = [("index.html", "Overview"), ("schedule.html", "Schedule"), ("scan.html", "Scan lists & instructions"),
+                 ("antennas.html", "Antennas"), ("safety.html", "Safety")]
+        nav = [NavItem(href, label, href == page or (href == "antennas.html" and page.startswith("antenna-"))
+                       or (href == "schedule.html" and page.startswith("link-"))) for href, label in items]
+    css = [root + "assets/site.css"]
+    if marking:
+        css.append("marking.css")
+    canonical = None
+    base = http_url(base_url)
+    if base is not None:
+        canonical = base.rstrip("/") + "/" + ((net.dir + "/") if net else "") + ("" if page == "index.html" else page)
+    rev = revision or {}
+    rev_text = ""
+    if rev.get("id"):
+        rev_text = f"{rev['id']} ({'git commit' if rev.get('kind') == 'git' else 'content hash'})"
+    gen = generator or {}
+    return Frame(page_title=title, heading=heading, root=root, css=tuple(css),
+                 marking=marking, nav=tuple(nav), canonical=canonical, revision=rev_text,
+                 generator=f"{gen.get('name', 'planpack')} {gen.get('version', '')}".strip(),
+                 date=shown_date(rev), safety_href="safety.html" if net is not None else None)
+
+
+def _net_frame(net: _Net, page: str, title: str) -> Frame:
+    d = net.data
+    return _frame(net, page=page, title=f"{title} · {d['net']['title']}", heading=d["net"]["title"], root="../",
+                  marking=d["net"].get("handling"), revision=d.get("revision"), generator=d.get("generator"),
+                  base_url=d["net"].get("base_url"))
+
+
+def _station_label(net: _Net, sid: str) -> str:
+    s = next((s for s in net.data["stations"] if s["id"] == sid), None)
+    return sid if s is None else f"{s['name']} ({sid})"
+
+
+def _link_rows(net: _Net) -> tuple[LinkRow, ...]:
+    rows = []
+    for ln in net.data["links"]:
+        gap_hours = [h["utc_hour"] for h in ln["hours"] if h.get("first") is None]
+        rows.append(LinkRow(id=ln["id"], href=f"link-{safe_name(ln['id'])}.html", a=_station_label(net, ln["from"]),
+                            b=_station_label(net, ln["to"]), distance=num(ln["distance_km"], 0),
+                            azimuth=num(ln.get("azimuth_deg"), 0), hops=str(ln.get("hops", "–")),
+                            gap_hours=hour_ranges(gap_hours) if gap_hours else "none"))
+    return tuple(rows)
+
+
+def _gap_rows(net: _Net, only_link: str | None = None) -> tuple[GapRow, ...]:
+    rows = []
+    for g in net.data.get("gaps", []):
+        if only_link is not None and only_link not in g["links"]:
+            continue
+        w = g.get("window_mhz")
+        window = "no single frequency closes it" if not w else f"{w[0]:.1f}–{w[1]:.1f} MHz"
+        every = {ln["id"] for ln in net.data["links"]}
+        if len(every) > 2 and set(g["links"]) == every:
+            links = (NavItem("schedule.html#h-links", f"all {len(every)} links"),)
+        else:
+            links = tuple(NavItem(f"link-{safe_name(lid)}.html", lid) for lid in g["links"])
+        rows.append(GapRow(links=links,
+                           local=local_ranges(g.get("local_hours", [])), utc=hour_ranges(g["utc_hours"]),
+                           window=window, message=str(g.get("message") or "")))
+    return tuple(rows)
+
+
+def _antenna_height(a: dict) -> float | None:
+    for src in (a, a.get("cut") or {}, a.get("nvis") or {}):
+        for key in ("height_m", "apex_height_m", "feed_height_m"):
+            if isinstance(src.get(key), (int, float)):
+                return float(src[key])
+    return None
+
+
+def _cut_rows(cut: dict | None) -> tuple[CutRow, ...]:
+    if not cut:
+        return ()
+    rows = []
+    used: set[str] = set()
+    metre_keys = [k for k in CUT_LABEL if k in cut] + sorted(k for k in cut if k.endswith("_m") and k not in CUT_LABEL)
+    for k in metre_keys:
+        v = cut[k]
+        if not isinstance(v, (int, float)):
+            continue
+        base = k[:-2]
+        ft = next((cut[c] for c in (base + "_ft_in", base + "_ftin", base + "_feet_inches", base + "_ft")
+                   if isinstance(cut.get(c), str)), None)
+        for c in (base + "_ft_in", base + "_ftin", base + "_feet_inches", base + "_ft"):
+            used.add(c)
+        rows.append(CutRow(CUT_LABEL.get(k, base.replace("_", " ").capitalize()), f"{v:.2f} m",
+                           ft if ft is not None else feet_inches(float(v))))
+        used.add(k)
+    return tuple(rows)
+
+
+def _cut_extras(cut: dict | None) -> tuple[list[KeyValue], list[str]]:
+    """What the cut sheet holds besides lengths: figures (as facts) and explanations (as notes)."""
+    facts, notes = [], []
+    for k in sorted(cut or {}):
+        v = cut[k]
+        if v is None or v is False or isinstance(v, (dict, list)) or k.endswith(("_m", "_ft_in", "_ftin", "_ft")):
+            continue
+        if isinstance(v, str):
+            notes.append(v[0].upper() + v[1:] if v else v)
+        elif v is True:
+            facts.append(KeyValue(k.replace("_", " "), "yes"))
+        elif k == "transformer_ratio":
+            facts.append(KeyValue("balun / transformer ratio", f"{v:g}:1"))
+        else:
+            facts.append(KeyValue(k.replace("_", " "), f"{v:g}" if isinstance(v, float) else str(v)))
+    return facts, notes
+
+
+def _exposure_rows(net: _Net) -> tuple[ExposureRow, ...]:
+    rows = []
+    for a in net.data.get("antennas", []):
+        for e in a.get("exposure", []):
+            rows.append(ExposureRow(_station_label(net, e["station"]), a["id"], f"{e['general_public_m']:.1f} m",
+                                    f"{e['occupational_m']:.1f} m"))
+    return tuple(sorted(rows, key=lambda r: (r.station, r.antenna)))
+
+
+def _kv(obj: object, prefix: str = "") -> list[KeyValue]:
+    """Flatten a small dict of figures into readable key/value rows."""
+    out = []
+    if isinstance(obj, dict):
+        for k in sorted(obj):
+            out += _kv(obj[k], f"{prefix}{k}".replace("_", " ") + " · ")
+    elif isinstance(obj, list):
+        out.append(KeyValue(prefix.rstrip(" ·"), ", ".join(str(x) for x in obj) or "none"))
+    else:
+        shown = "yes" if obj is True else "no" if obj is False else "–" if obj is None else str(obj)
+        out.append(KeyValue(prefix.rstrip(" ·"), shown))
+    return out
+
+
+def _overview(net: _Net) -> OverviewPage:
+    d = net.data
+    n = d["net"]
+    ants = {a["id"] for a in d.get("antennas", [])}
+    stations = []
+    for s in d["stations"]:
+        sun = s.get("sun") or {}
+        sun_text = "–"
+        if sun.get("sunrise_local") or sun.get("sunset_local"):
+            sun_text = f"{sun.get('sunrise_local') or 'none'} / {sun.get('sunset_local') or 'none'}"
+        stations.append(StationRow(
+            id=s["id"], anchor=f"st-{safe_name(s['id'])}", name=s["name"], address=s["address"], role=s["role"],
+            lat=f"{s['lat_deg']:.4f}", lon=f"{s['lon_deg']:.4f}", grid=s["grid"], power=f"{s['power_w']:g} W",
+            antennas=tuple(NavItem(f"antenna-{safe_name(a)}.html" if a in ants else "antennas.html", a)
+                           for a in s["antennas"]),
+            ground=f"{s['ground']['soil']}, {s['ground']['system']}", noise=str(s.get("noise", "–")), sun=sun_text))
+    channels = tuple(ChannelRow(
+        id=c["id"], khz=khz_text(c["freq_khz"]), mode=str(c["mode"]).upper(),
+        hours=", ".join(c["hours_local"]) if c.get("hours_local") else "any hour", note=c.get("note") or "",
+        snr=f"{c['required_snr_db']:g} dB", bandwidth=f"{c['bandwidth_hz']:g} Hz") for c in d["channels"])
+    a = d.get("assumptions", {})
+    solar = a.get("solar", {})
+    assumptions = [KeyValue("months", ", ".join(a.get("months", [])) or "–")]
+    if solar:
+        label = {"ssn": "sunspot number", "f107": "10.7 cm solar flux"}.get(solar.get("index"), str(solar.get("index")))
+        assumptions.append(KeyValue("solar activity", f"{label} {', '.join(f'{v:g}' for v in solar.get('values', []))}"))
+        if solar.get("ssn_used"):
+            assumptions.append(KeyValue("sunspot number used", ", ".join(f"{v:g}" for v in solar["ssn_used"])))
+    if a.get("worst_case"):
+        assumptions.append(KeyValue("schedule holds for", str(a["worst_case"])))
+    methods = tuple(_kv(a.get("models") or {}))
+    facts = [KeyValue("valid", net.valid()), KeyValue("time zone", n["timezone"]),
+             KeyValue("net address", n.get("net_address") or "none"),
+             KeyValue("control station", _station_label(net, n["control"]) if n.get("control") else "none"),
+             KeyValue("links", {"hub": "every station to control", "all": "every pair of stations",
+                                "list": "as listed in the plan"}.get(n.get("links_rule"), str(n.get("links_rule", "–")))),
+             KeyValue("a channel counts as working on", f"at least {pct(net.target)} of days"),
+             KeyValue("card size", str(n.get("card_size", "–")))]
+    warnings = tuple(WarningRow(w.get("severity", "warning"), w.get("code", ""),
+                                f"{w.get('file', '')}:{w.get('line', 0)}:{w.get('column', 0)}" + (f" ({w['key']})" if w.get("key") else ""),
+                                w.get("message", "")) for w in net.warnings())
+    return OverviewPage(
+        frame=_net_frame(net, "index.html", "Overview"), title=n["title"], net_id=n["id"], handling=n.get("handling"),
+        valid=net.valid(), timezone=n["timezone"], net_address=n.get("net_address") or "none",
+        control=_station_label(net, n["control"]) if n.get("control") else "none", target=pct(net.target),
+        facts=tuple(facts), assumptions=tuple(assumptions), methods=methods, not_modelled=tuple(str(x) for x in a.get("not_modelled", [])),
+        notes=tuple(str(x) for x in a.get("notes", [])), stations=tuple(stations), channels=channels,
+        links=_link_rows(net), map_src="charts/map.svg",
+        map_alt=f"Map of the {len(d['stations'])} stations and {len(d['links'])} links; the station table below gives every position.",
+        warnings=warnings, cards=tuple(NavItem(f"cards/{c}", c) for c in net.cards))
+
+
+def _schedule(net: _Net) -> SchedulePage:
+    d = net.data
+    rows = []
+    for h in d["net_schedule"]["hours"]:
+        first = net.channel(h.get("first"))
+        short = first is not None and (h.get("weakest_good_days") or 0) < net.target
+        note = "below target" if short else ""
+        if first and h.get("weakest_link"):
+            note = (note + "; " if note else "") + "weakest link " + h["weakest_link"]
+        rows.append(HourRow(
+            local=h["local_time"], utc=f"{h['utc_hour']:02d}:00", first=first,
+            first_good=pct(h.get("weakest_good_days")) if first else "–", second=net.channel(h.get("second")),
+            second_good=pct(h.get("second_good_days")) if h.get("second") else "–",
+            note=note, gap=first is None, short=short))
+    return SchedulePage(frame=_net_frame(net, "schedule.html", "Schedule"), timezone=d["net"]["timezone"],
+                        changes=str(d["net_schedule"].get("changes_per_day", "–")), target=pct(net.target),
+                        rows=tuple(rows), gaps=_gap_rows(net), links=_link_rows(net))
+
+
+def _link_page(net: _Net, ln: dict, row: LinkRow) -> LinkPage:
+    rows = []
+    for h in ln["hours"]:
+        cells = {c["channel"]: c for c in h.get("channels", [])}
+        first, second = net.channel(h.get("first")), net.channel(h.get("second"))
+        working = [c["channel"] for c in h.get("channels", [])
+                   if c.get("allowed", True) and c["good_days"] >= net.target]
+        rows.append(LinkHourRow(
+            local=h["local_time"], utc=f"{h['utc_hour']:02d}:00", muf=num(h["muf_mhz"]), owf=num(h["owf_mhz"]),
+            luf=num(h.get("luf_mhz")), first=first,
+            first_good=pct(cells[h["first"]]["good_days"]) if first and h["first"] in cells else "–",
+            second=second, second_good=pct(cells[h["second"]]["good_days"]) if second and h["second"] in cells else "–",
+            working=", ".join(working) or "none", gap=first is None,
+            short=first is not None and h["first"] in cells and cells[h["first"]]["good_days"] < net.target))
+    return LinkPage(frame=_net_frame(net, row.href, f"Link {ln['id']}"), link=row, timezone=net.data["net"]["timezone"],
+                    target=pct(net.target), chart_src=f"charts/link-{safe_name(ln['id'])}.svg",
+                    chart_alt=(f"Usable frequency window of link {ln['id']} across the day, with the assigned channels; "
+                               "the table below gives the same figures hour by hour."),
+                    rows=tuple(rows), gaps=_gap_rows(net, ln["id"]))
+
+
+def _scan(net: _Net) -> ScanPage:
+    lists = []
+    for s in net.data.get("scan_lists", []):
+        groups = tuple(ScanGroup(g["name"], hour_ranges(g["utc_hours"]) if g.get("utc_hours") else "any hour", ", ".join(net.channel(c).text for c in g["channels"]) or "none",
+                                 f"{g['scan_period_s']:.1f} s", f"{g['call_time_s']:.1f} s") for g in s["groups"])
+        lists.append(ScanRow(_station_label(net, s["station"]), f"scan-{safe_name(s['station'])}", groups,
+                             ", ".join(s.get("wasted", [])) or "none", bool(s.get("split_suggested")),
+                             str(s.get("note") or "")))
+    return ScanPage(frame=_net_frame(net, "scan.html", "Scan lists & instructions"), lists=tuple(lists),
+                    instructions=markdown_html(net.data["net"].get("instructions_md")))
+
+
+def _antenna_summaries(net: _Net) -> AntennaIndexPage:
+    out = []
+    for a in net.data.get("antennas", []):
+        order = {"fine": 0, "tuner": 1, "poor": 2}
+        worst = max((c["swr_class"] for c in a.get("channels", [])), key=lambda c: order.get(c, 3), default="–")
+        out.append(AntennaSummary(f"antenna-{safe_name(a['id'])}.html", a["id"], KIND_LABEL.get(a["kind"], a["kind"]),
+                                  ", ".join(_station_label(net, s) for s in a.get("stations", [])) or "none", worst))
+    return AntennaIndexPage(frame=_net_frame(net, "antennas.html", "Antennas"), antennas=tuple(out))
+
+
+def _antenna_page(net: _Net, a: dict) -> AntennaPage:
+    aid = safe_name(a["id"])
+    height = _antenna_height(a)
+    facts = [KeyValue("kind", KIND_LABEL.get(a["kind"], a["kind"])),
+             KeyValue("height", "–" if height is None else f"{height:.1f} m"
+                      + ("" if a.get("height_wavelengths") is None else f" ({a['height_wavelengths']:.2f} wavelengths)"))]
+    cut = a.get("cut") or {}
+    balun = a.get("balun") or cut.get("balun")
+    if balun:
+        facts.append(KeyValue("balun", str(balun)))
+    if a.get("design_khz"):
+        facts.append(KeyValue("designed for", f"{khz_text(a['design_khz'])} kHz"))
+    win = a.get("nvis_window") or {}
+    if win.get("applies") and win.get("low_height_m") is not None:
+        facts.append(KeyValue("NVIS height window", f"{win['low_height_m']:.1f}–{win['high_height_m']:.1f} m at "
+                              f"{khz_text(win.get('freq_khz', 0))} kHz: " + ("inside" if win.get("inside") else "outside")))
+    extra_facts, cut_notes = _cut_extras(cut)
+    facts += extra_facts
+    swr = tuple(SwrRow(c["channel"], khz_text(c["freq_khz"]),
+                       f"{c['impedance_ohm'][0]:.0f} {'+' if c['impedance_ohm'][1] >= 0 else '−'} j{abs(c['impedance_ohm'][1]):.0f} Ω",
+                       f"{c['swr']:.1f}:1", c["swr_class"], f"{c['mismatch_loss_db']:.1f} dB", f"{c['feedline_loss_db']:.1f} dB")
+                for c in a.get("channels", []))
+    p = a.get("pattern") or {}
+    pattern = []
+    if p:
+        pattern = [KeyValue("peak gain", f"{p['peak_gain_dbi']:.1f} dBi"),
+                   KeyValue("gain straight up", f"{p['zenith_gain_dbi']:.1f} dBi"),
+                   KeyValue("power radiated above 60° elevation", pct(p["fraction_above_60deg"]))]
+    pattern += [KeyValue("near-vertical use · " + kv.key, kv.value) for kv in _kv(a.get("nvis") or {})]
+    exposure = tuple(r for r in _exposure_rows(net) if r.antenna == a["id"])
+    return AntennaPage(
+        frame=_net_frame(net, f"antenna-{aid}.html", f"Antenna {a['id']}"), id=a["id"],
+        kind=KIND_LABEL.get(a["kind"], a["kind"]),
+        stations=tuple(NavItem(f"index.html#st-{safe_name(s)}", _station_label(net, s)) for s in a.get("stations", [])),
+        facts=tuple(facts), cut=_cut_rows(a.get("cut")), sketch_src=f"charts/antenna-{aid}-sketch.svg",
+        sketch_alt=f"Sketch of how the {KIND_LABEL.get(a['kind'], a['kind']).lower()} hangs, labelled with the cut lengths.",
+        swr_src=f"charts/antenna-{aid}-swr.svg" if a.get("channels") else None,
+        swr_alt="SWR on each channel; the table beside it gives the same figures.", swr=swr,
+        pattern_src=f"charts/antenna-{aid}-pattern.svg" if _patterns(a) else None,
+        pattern_alt="Elevation pattern on each channel, gain against elevation angle.", pattern=tuple(pattern),
+        exposure=exposure,
+        notes=tuple([str(x) for x in a.get("notes") or []] + [str(w.get("message", w)) if isinstance(w, dict) else str(w)
+                                                              for w in a.get("warnings") or []]
+                    + [str(x) for x in a.get("assumptions") or []] + cut_notes),
+        method=tuple(kv for key in ("solver", "ground", "matching", "reflector", "nvis_window", "solved_over")
+                     for kv in _kv(a.get(key) or {}, key.replace("_", " ") + " · ")))
+
+
+def _safety(net: _Net) -> SafetyPage:
+    s = net.data.get("safety") or {}
+    cautions = tuple(KeyValue(str(c.get("title") or c.get("topic", "")), str(c.get("text", "")))
+                     for c in s.get("cautions", [])) or FALLBACK_CAUTIONS
+    ground = tuple(GroundRow(_station_label(net, st["id"]), st["ground"]["soil"], st["ground"]["system"],
+                             str(st["ground"].get("instruction") or "")) for st in net.data["stations"])
+    return SafetyPage(frame=_net_frame(net, "safety.html", "Safety & grounding"), cautions=cautions,
+                      deferral=str(s.get("deferral") or FALLBACK_DEFERRAL), exposure=_exposure_rows(net), ground=ground)
+
+
+def _patterns(a: dict) -> list[dict]:
+    """Elevation patterns per channel: the antenna's list, or the per-channel figures."""
+    if a.get("elevation_pattern"):
+        return a["elevation_pattern"]
+    return [{"channel": c["channel"], "gain_dbi": c["elevation_gain_dbi"]}
+            for c in a.get("channels", []) if c.get("elevation_gain_dbi")]
+
+
+def _charts(net: _Net) -> dict[str, str]:
+    d = net.data
+    out = {"charts/map.svg": charts.station_map(d["stations"], d["links"], title=f"Map of {d['net']['title']}")}
+    for ln in d["links"]:
+        name = safe_name(ln["id"])
+        out[f"charts/link-{name}.svg"] = charts.frequency_window(
+            ln["hours"], d["channels"], title=f"Usable frequencies, link {ln['id']}", target_good_days=net.target,
+            uid="fw")
+    freqs = {c["id"]: c["freq_khz"] for c in d["channels"]}
+    for a in d.get("antennas", []):
+        name = safe_name(a["id"])
+        out[f"charts/antenna-{name}-sketch.svg"] = charts.antenna_sketch(
+            a["kind"], title=f"How antenna {a['id']} hangs", height_m=_antenna_height(a), cut=a.get("cut"))
+        if a.get("channels"):
+            out[f"charts/antenna-{name}-swr.svg"] = charts.swr_chart(a["channels"], title=f"SWR of antenna {a['id']}")
+        if _patterns(a):
+            out[f"charts/antenna-{name}-pattern.svg"] = charts.elevation_patterns(
+                _patterns(a), freqs, title=f"Elevation pattern of antenna {a['id']}")
+    return out
+
+
+# ------------------------------------------------------------------- rendering
+
+def _environment():
+    import jinja2
+
+    env = jinja2.Environment(
+        loader=jinja2.FileSystemLoader(str(TEMPLATES)),
+        autoescape=True,  # everything, whatever the template's name
+        undefined=jinja2.StrictUndefined,
+        trim_blocks=True,
+        lstrip_blocks=True,
+        keep_trailing_newline=True,
+    )
+    return env
+
+
+def marking_css(marking: str) -> str:
+    """Print rules that put the handling marking in the top and bottom margin of every printed page."""
+    s = css_string(marking)
+    return ("@media print {\n  @page {\n"
+            f"    @top-center {{ content: {s}; font: 700 9pt sans-serif; color: #000; }}\n"
+            f"    @bottom-center {{ content: {s}; font: 700 9pt sans-serif; color: #000; }}\n"
+            "  }\n}\n")
+
+
+def render_site(nets: list[dict], *, warnings: dict[str, list[dict]] | None = None,
+                cards: dict[str, list[str]] | None = None) -> dict[str, bytes]:
+    """Render every net's pages; returns {relative path: bytes}, keys sorted.
+
+    nets: compiled plans' data dicts (plan.json contents).
+    warnings: extra diagnostics per net id (from reading the plan) to show beside the analysis warnings.
+    cards: card file names per net id, already written under ``<net>/cards/``; the site links them.
+    """
+    env = _environment()
+    ids = [d["net"]["id"] for d in nets]
+    dirs = [safe_name(i) for i in ids]
+    if len(set(dirs)) != len(dirs):
+        dup = sorted({i for i in ids if dirs.count(safe_name(i)) > 1})
+        raise ValueError(f"two plans share the net id {', '.join(dup)}; each net needs its own id")
+    models = [_Net(d, list((warnings or {}).get(d["net"]["id"], [])), tuple(sorted((cards or {}).get(d["net"]["id"], []))))
+              for d in sorted(nets, key=lambda d: d["net"]["id"])]
+    files: dict[str, bytes] = {}
+
+    def page(path: str, template: str, ctx) -> None:
+        files[path] = env.get_template(template).render(page=ctx).encode("utf-8")
+
+    for name in ASSETS:
+        files[f"assets/{name}"] = (TEMPLATES / "static" / name).read_bytes()
+    for net in models:
+        d, base = net.data, net.dir + "/"
+        if d["net"].get("handling"):
+            files[base + "marking.css"] = marking_css(d["net"]["handling"]).encode("utf-8")
+        page(base + "index.html", "overview.html", _overview(net))
+        page(base + "schedule.html", "schedule.html", _schedule(net))
+        for ln, row in zip(d["links"], _link_rows(net)):
+            page(base + row.href, "link.html", _link_page(net, ln, row))
+        page(base + "scan.html", "scan.html", _scan(net))
+        page(base + "antennas.html", "antennas.html", _antenna_summaries(net))
+        for a in d.get("antennas", []):
+            page(base + f"antenna-{safe_name(a['id'])}.html", "antenna.html", _antenna_page(net, a))
+        page(base + "safety.html", "safety.html", _safety(net))
+        for path, svg in _charts(net).items():
+            files[base + path] = svg.encode("utf-8")
+        files[base + "plan.json"] = json_bytes(d)
+    # the site index: newest valid period first, then by id
+    ordered = sorted(models, key=lambda m: m.data["net"]["valid"]["from"], reverse=True)
+    summaries = tuple(NetSummary(
+        href=f"{m.dir}/index.html", title=m.data["net"]["title"], net_id=m.id, valid=m.valid(),
+        handling=m.data["net"].get("handling"), stations=len(m.data["stations"]), channels=len(m.data["channels"]),
+        links=len(m.data["links"]), warnings=len(m.warnings())) for m in ordered)
+    markings = sorted({m.data["net"]["handling"] for m in models if m.data["net"].get("handling")})
+    marking = " / ".join(markings) or None
+    if marking:
+        files["marking.css"] = marking_css(marking).encode("utf-8")
+    index_frame = _frame(None, page="index.html", title="HF net plans", heading="HF net plans", root="",
+                         marking=marking, revision=None, generator=models[0].data.get("generator") if models else None,
+                         base_url=None)
+    page("index.html", "index.html", IndexPage(index_frame, summaries))
+    return dict(sorted(files.items()))
