@@ -134,11 +134,9 @@ def build_parser() -> argparse.ArgumentParser:
 
 
 def _add_publish_commands(sub) -> None:
-    """Commands that compile and publish; their modules import lazily."""
-    try:
-        from planpack.publish import commands
-    except ImportError:
-        return
+    """Commands that compile and publish (build, cards)."""
+    from planpack.publish import commands
+
     commands.register(sub)
 
 
