@@ -19,12 +19,21 @@ import hashlib
 import json
 import os
 import re
+import sys
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from planpack.publish import charts
 
-TEMPLATES = Path(__file__).resolve().parents[2] / "site_templates"
+def _templates_dir() -> Path:
+    """site_templates/ beside the package (a source checkout or editable install), else where a wheel puts it."""
+    here = Path(__file__).resolve().parents[2] / "site_templates"
+    if here.is_dir():
+        return here
+    return Path(sys.prefix) / "share" / "planpack" / "site_templates"
+
+
+TEMPLATES = _templates_dir()
 ASSETS = ("site.css",)
 CSP = "default-src 'none'; style-src 'self'; img-src 'self' data:; base-uri 'none'; form-action 'none'"
 
