@@ -60,6 +60,23 @@ def main() -> None:
               f"{a.solver['trim_solves']:2d} trim solves, "
               f"SWR {a.swr.min():.1f}-{a.swr.max():.0f}")
     print(f"target < 5 s for the cold batch: {'met' if cold < 5.0 else 'NOT met'} ({cold:.2f} s)")
+    demo_plans()
+
+
+def demo_plans() -> None:
+    """Solver time for each demo plan, cold, as `planpack build` meets it."""
+    from planpack.plan import read_plan
+    from planpack.plan.diagnostics import Collector
+    from planpack.stationsetup import solve_station_antennas
+
+    for path in sorted(Path(__file__).resolve().parents[1].glob("plans/*.yaml")):
+        plan = read_plan(str(path)).plan
+        clear_cache()
+        t0 = time.perf_counter()
+        setup = solve_station_antennas(plan, Collector(str(path)))
+        dt = time.perf_counter() - t0
+        print(f"demo {path.name:<40s} {len(setup.by_station):3d} station antennas, "
+              f"{cache_info()['misses']:2d} solves, {len(plan.channels):2d} channels {dt:7.2f} s")
 
 
 if __name__ == "__main__":
