@@ -130,6 +130,9 @@ def build_parser() -> argparse.ArgumentParser:
     k.set_defaults(func=cmd_codes)
 
     _add_publish_commands(sub)
+    from planpack.workflow import commands as workflow_commands
+
+    workflow_commands.register(sub)
     return p
 
 

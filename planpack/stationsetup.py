@@ -130,14 +130,22 @@ def solve_station_antennas(plan: Plan, out: Collector) -> StationAntennas | None
                 return None
         raise exc
     by_station: dict[tuple[str, str], AntennaAnalysis] = {}
-    primary: dict[str, AntennaAnalysis] = {}
-    primary_station: dict[str, str | None] = {}
+    users: dict[str, list[tuple[str | None, AntennaAnalysis]]] = {}
     for (s, a), r in zip(jobs, results):
         if s is not None:
             by_station[(s, a)] = r
-        if a not in primary:
-            primary[a] = r
-            primary_station[a] = s
+        users.setdefault(a, []).append((s, r))
+    # the antenna's own sheet is shown over the soil most of its stations share (ties: soil name), so that
+    # the order stations are written in changes nothing
+    primary: dict[str, AntennaAnalysis] = {}
+    primary_station: dict[str, str | None] = {}
+    for a, rows in users.items():
+        count: dict[str, int] = {}
+        for _, r in rows:
+            count[r.ground.soil] = count.get(r.ground.soil, 0) + 1
+        soil = min(count, key=lambda k: (-count[k], k))
+        s, r = min(((s, r) for s, r in rows if r.ground.soil == soil), key=lambda x: x[0] or "")
+        primary[a], primary_station[a] = r, s
     return StationAntennas(by_station, primary, primary_station, {a.id: a for a in plan.antennas})
 
 

@@ -26,6 +26,7 @@ def register(subparsers) -> None:
     c.add_argument("--impose", choices=SHEETS, default=None,
                    help="also write cards-SHEET.pdf: several cards a sheet with crop marks, backs mirrored "
                         "for long-edge duplex printing")
+    c.add_argument("--no-cache", action="store_true", help="compile afresh; do not read or write .planpack-cache/")
     c.add_argument("--force", action="store_true", help="replace DIR even when it is not empty and was not made by planpack")
     c.add_argument("--strict", action="store_true", help="treat warnings as errors: write nothing (exit 1)")
     c.add_argument("--format", choices=("text", "json", "github"), default="text",

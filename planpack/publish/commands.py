@@ -28,6 +28,7 @@ def register(subparsers) -> None:
                    help="replace DIR even when it is not empty and was not made by planpack")
     b.add_argument("--strict", action="store_true", help="treat warnings as errors: build nothing (exit 1)")
     b.add_argument("--no-cards", action="store_true", help="do not render the PDF field cards")
+    b.add_argument("--no-cache", action="store_true", help="compile afresh; do not read or write .planpack-cache/")
     b.add_argument("--format", choices=("text", "json", "github"), default="text",
                    help="how to print diagnostics: text (stderr), json or github annotations (stdout)")
     b.add_argument("-q", "--quiet", action="store_true", help="no progress and no summary line")

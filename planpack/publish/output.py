@@ -157,7 +157,8 @@ def recover(out: Path) -> None:
     if not os.path.lexists(out):
         # killed between the two renames of the fallback swap: put the previous site back
         for old in olds:
-            if (old / MARKER).is_file():
+            # only a real folder this module set aside: never a planted link to somewhere else
+            if not old.is_symlink() and old.is_dir() and (old / MARKER).is_file() and not (old / MARKER).is_symlink():
                 os.rename(old, out)
                 break
     for n in names:

@@ -26,7 +26,7 @@ def compile_all(args, verb: str, step: Callable[[int, int, str], None] | None = 
     ``verb`` finishes the sentence "...; nothing was <verb>" when the run stops.
     """
     from planpack import cli
-    from planpack.compile import compile_plan
+    from planpack.workflow.cache import cached_compile
 
     results = cli.read_all(args.plans)
     diags = [d for r in results for d in r.diagnostics]
@@ -39,7 +39,7 @@ def compile_all(args, verb: str, step: Callable[[int, int, str], None] | None = 
     for i, r in enumerate(results, 1):
         if step:
             step(i, len(results), f"compiling {r.plan.net.id}")
-        c = compile_plan(r.plan)
+        c = cached_compile(r.plan, enabled=not getattr(args, "no_cache", False))
         pairs.append((r, c))
         diags += list(c.diagnostics)
     cli.print_diagnostics(diags, args.format)

@@ -46,6 +46,7 @@ def fake_compile(monkeypatch):
         return FakeCompiled(d, list(warnings))
 
     monkeypatch.setitem(sys.modules, "planpack.compile", _module("planpack.compile", compile_plan=compile_plan))
+    monkeypatch.setattr("planpack.workflow.cache.cached_compile", lambda plan, **kw: compile_plan(plan))
     return warnings
 
 
