@@ -323,6 +323,10 @@ def _scan_list(st: dict, station_ids: list[str], ch_ids: list[str]) -> dict:
             "split_suggested": suggested, "note": note, "scan_rate": st["scan_rate_chps"]}
 
 
+def _swr_text(swr: float) -> str:
+    return f"{swr:.1f}:1" if swr < 10 else f"{swr:.0f}:1"
+
+
 def _antenna_warnings(plan: Plan, setup: StationAntennas, pred: LinkPredictions, out: Collector) -> None:
     """SWR above 3:1 on a channel, dipoles outside the NVIS window on an NVIS net, whips alone on one."""
     nvis_net = len(plan.links) > 0 and float(np.max(pred.distance_km)) < NVIS_RANGE_KM
@@ -335,11 +339,19 @@ def _antenna_warnings(plan: Plan, setup: StationAntennas, pred: LinkPredictions,
                       "feedpoint-coupler": "the feed-point coupler"}[ant.matching]
             poor = [i for i, c in enumerate(plan.channels) if not matched[i] or result.swr[i] > 3.0]
             if poor:
-                parts = [f"{plan.channels[i].id} {result.swr[i]:.1f}:1" + ("" if matched[i] else " (beyond " + device + ")")
-                         + f", {loss[i]:.1f} dB lost" for i in poor]
+                ids = [plan.channels[i].id for i in poor]
+                listed = ", ".join(f"{plan.channels[i].id} {_swr_text(result.swr[i])}" for i in poor)
+                lost = [i for i in poor if not matched[i]]
+                tail = ""
+                if lost:
+                    tail = (f"; {device} cannot match {', '.join(plan.channels[i].id for i in lost)}: "
+                            f"{min(loss[i] for i in lost):.0f}-{max(loss[i] for i in lost):.0f} dB of the power is lost there")
+                kept = [i for i in poor if matched[i]]
+                if kept:
+                    tail += (f"; {device} matches {', '.join(plan.channels[i].id for i in kept)} "
+                             f"with {max(loss[i] for i in kept):.1f} dB loss at most")
                 out.warning("swr-high", f"antennas.{ant.id}",
-                            f"antennas.{ant.id}: SWR above 3:1 on {len(poor)} of {len(plan.channels)} channels: " + "; ".join(parts)
-                            + ". A tuner may match it, but the power shown is lost", at)
+                            f"antennas.{ant.id}: SWR above 3:1 on {len(ids)} of {len(plan.channels)} channels ({listed}){tail}", at)
         nv = result.nvis_window or {}
         if nvis_net and nv.get("applies") and nv.get("inside") is False:
             out.warning("nvis-height", f"antennas.{ant.id}.height_m",
