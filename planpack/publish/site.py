@@ -607,6 +607,14 @@ def _cut_rows(cut: dict | None) -> tuple[CutRow, ...]:
     return tuple(rows)
 
 
+_EXTRA_LABELS = {
+    "apex_deg": ("angle between the legs", "{:g}°"),
+    "rule_vs_nec_percent": ("468/f rule against the NEC trim", "{:+.1f} %"),
+    "resistor_ohm": ("terminating resistor", "{:g} Ω"),
+    "trimmed": ("trimmed to resonance by NEC", ""),
+}
+
+
 def _cut_extras(cut: dict | None) -> tuple[list[KeyValue], list[str]]:
     """What the cut sheet holds besides lengths: figures (as facts) and explanations (as notes)."""
     facts, notes = [], []
@@ -617,9 +625,12 @@ def _cut_extras(cut: dict | None) -> tuple[list[KeyValue], list[str]]:
         if isinstance(v, str):
             notes.append(v[0].upper() + v[1:] if v else v)
         elif v is True:
-            facts.append(KeyValue(k.replace("_", " "), "yes"))
+            facts.append(KeyValue(_EXTRA_LABELS.get(k, (k.replace("_", " "),))[0], "yes"))
         elif k == "transformer_ratio":
             facts.append(KeyValue("balun / transformer ratio", f"{v:g}:1"))
+        elif k in _EXTRA_LABELS:
+            label, fmt = _EXTRA_LABELS[k]
+            facts.append(KeyValue(label, fmt.format(v)))
         else:
             facts.append(KeyValue(k.replace("_", " "), f"{v:g}" if isinstance(v, float) else str(v)))
     return facts, notes
