@@ -28,7 +28,8 @@ class ReadResult:
 def read_plan(path: str) -> ReadResult:
     """Read and validate one plan file. Never raises for anything in the file."""
     out = Collector(path)
-    root = yamlread.read_file(path, out)
+    raw = yamlread.read_bytes(path, out)
+    root = None if raw is None else yamlread.parse_bytes(raw, out)
     if root is None:
         if not out.items:
             out.error("not-a-mapping", "", "the file is empty; a plan starts with 'planpack: 1'")
@@ -53,8 +54,7 @@ def read_plan(path: str) -> ReadResult:
     check_semantics(data, ctx, root)
     if out.has_errors:
         return ReadResult(None, out.sorted())
-    with open(path, "rb") as fh:
-        sha = hashlib.sha256(fh.read()).hexdigest()
+    sha = hashlib.sha256(raw).hexdigest()  # the bytes that were read, not a second read (a pipe is empty by then)
     return ReadResult(build(data, path, sha, ctx.positions), out.sorted())
 
 

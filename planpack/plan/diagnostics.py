@@ -8,6 +8,7 @@ table is made from.
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass, field
 
 ERROR = "error"
@@ -96,7 +97,8 @@ class Diagnostic:
             raise ValueError(f"bad severity {self.severity!r}")
 
     def format(self) -> str:
-        return f"{self.file}:{self.line}:{self.column}: {self.severity} {self.code}: {self.message}"
+        """One line for a terminal; control and bidi characters from the plan are shown escaped."""
+        return _printable(f"{self.file}:{self.line}:{self.column}: {self.severity} {self.code}: {self.message}")
 
     def to_dict(self) -> dict:
         return {
@@ -108,6 +110,15 @@ class Diagnostic:
             "key": self.key,
             "message": self.message,
         }
+
+
+# C0/C1 controls (an ESC could retitle or rewrite the user's terminal) and the bidi
+# overrides that make text read differently from what it is.
+_UNPRINTABLE = re.compile("[\x00-\x1f\x7f-\x9f\u202a-\u202e\u2066-\u2069]")
+
+
+def _printable(text: str) -> str:
+    return _UNPRINTABLE.sub(lambda m: f"\\x{ord(m[0]):02x}" if ord(m[0]) < 0x100 else f"\\u{ord(m[0]):04x}", text)
 
 
 class Collector:

@@ -92,6 +92,29 @@ class Type:
         return node
 
 
+# Control characters other than tab and line breaks (C0, DEL, C1): YAML escapes can write them.
+_CONTROL = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x9f]")
+# YAML 1.1 booleans that PyYAML leaves as text but other YAML 1.1 readers do not
+_BOOL_11_SHORT = {"y", "Y", "n", "N"}
+
+
+def text_surprise(raw: str) -> tuple[str, str] | None:
+    """(code, how other tools read it) when unquoted ``raw`` is not plain text to every YAML reader."""
+    tag = yaml11_tag(raw)
+    if tag.endswith(":bool") or raw in _BOOL_11_SHORT:
+        word = "true" if raw.lower() in ("yes", "on", "y", "true") else "false"
+        return "yaml11-bool", f"YAML 1.1 tools read as {word}"
+    if _SEXAGESIMAL.match(raw) and tag.endswith((":int", ":float")):
+        return "yaml11-sexagesimal", "YAML 1.1 tools read as a base-60 number"
+    if tag.endswith((":int", ":float")) or _FLOAT_12.match(raw) or _NUMBER_FORMS.match(raw):
+        return "wrong-type", "YAML reads as a number"
+    if tag.endswith(":timestamp"):
+        return "wrong-type", "YAML 1.1 tools read as a date or time"
+    if tag.endswith((":value", ":merge")):
+        return "wrong-type", "YAML 1.1 tools read as a special value, not text"
+    return None
+
+
 @dataclass
 class Text(Type):
     """A string. Unquoted text that YAML 1.1 would read as another type is refused."""
@@ -106,18 +129,17 @@ class Text(Type):
         if s is None:
             return INVALID
         if s.plain:
-            tag = yaml11_tag(s.raw)
-            if tag.endswith(":bool"):
-                return ctx.error("yaml11-bool", path,
-                                 f"expected text, got unquoted {s.raw}, which YAML 1.1 tools read as {'true' if s.raw.lower() in ('yes', 'on', 'y', 'true') else 'false'}; quote it: \"{s.raw}\"", s)
-            if _SEXAGESIMAL.match(s.raw) and (tag.endswith(":int") or tag.endswith(":float")):
-                return ctx.error("yaml11-sexagesimal", path,
-                                 f"expected text, got unquoted {s.raw}, which YAML 1.1 tools read as a base-60 number; quote it: \"{s.raw}\"", s)
-            if tag.endswith(":int") or tag.endswith(":float"):
-                return ctx.error("wrong-type", path, f"expected text, got the number {s.raw}; quote it if it is meant as text: \"{s.raw}\"", s)
+            surprise = text_surprise(s.raw)
+            if surprise is not None:
+                code, reading = surprise
+                return ctx.error(code, path, f"expected text, got unquoted {s.raw}, which {reading}; quote it: \"{s.raw}\"", s)
         value = s.raw
         if len(value) > self.max_len:
             return ctx.error("out-of-range", path, f"expected text of at most {self.max_len} characters, got {len(value)}", s)
+        control = _CONTROL.search(value)
+        if control:  # a "\0" or "\e" escape in a quoted string: nothing a page or a card can show
+            return ctx.error("wrong-type", path, f"expected text, got the control character U+{ord(control[0]):04X} at "
+                             f"character {control.start() + 1}; remove it", s)
         if self.pattern and not re.fullmatch(self.pattern, value):
             code = "bad-slug" if self.pattern == SLUG_PATTERN else "wrong-type"
             return ctx.error(code, path, f"expected {self.pattern_hint or 'text matching ' + self.pattern}, got {describe(s)}", s)
@@ -402,14 +424,12 @@ class MapOf(Type):
         slug = Slug()
         for key, (knode, vnode) in node.entries.items():
             sub = f"{path}.{key}"
-            if not knode.plain or yaml11_tag(knode.raw).endswith(":str"):
-                pass
-            else:
-                tag = yaml11_tag(knode.raw)
-                if tag.endswith(":bool"):
-                    ctx.error("yaml11-bool", sub, f"the id {knode.raw} is read as true/false by YAML 1.1 tools; quote it or choose another id", knode)
-                    bad = True
-                    continue
+            surprise = text_surprise(knode.raw) if knode.plain else None
+            if surprise is not None:
+                code, reading = surprise
+                ctx.error(code, sub, f"the id {knode.raw} is not plain text to every tool: {reading}; quote it or choose another id", knode)
+                bad = True
+                continue
             if slug.read(Scalar(knode.line, knode.col, knode.raw, plain=False), sub, ctx) is INVALID:
                 bad = True
                 continue

@@ -26,6 +26,9 @@ HF_HIGH_KHZ = 30000.0
 MIN_SPACING_KHZ = 3.0
 ALE_MAX_CHARS = 15  # MIL-STD-188-141 appendix A: up to five 3-character words
 _ALE_CHARS = re.compile(r"[A-Z0-9]+\Z")
+# The whole URL, not only its start: the site and the QR codes use it as written, and append
+# '<net id>/' to it, so it is a folder: no user@ before the host, no ?query or #fragment.
+_HTTP_URL = re.compile(r"https?://([A-Za-z0-9.-]+|\[[0-9A-Fa-f:.]+\])(:[0-9]{1,5})?(/[^\s\"'<>\\`?#\x00-\x1f\x7f]*)?")
 _HOURS = re.compile(r"([0-2][0-9]):([0-5][0-9])\s*-\s*([0-2][0-9]):([0-5][0-9])\Z")
 
 
@@ -84,8 +87,9 @@ class Semantics:
         if "net_address" in net:
             self.address("net.net_address", net["net_address"])
         url = net.get("base_url")
-        if url is not None and not re.match(r"https?://[^\s/]+", url):
-            self.error("bad-url", "net.base_url", f"expected an http:// or https:// URL, got '{url}'")
+        if url is not None and not _HTTP_URL.fullmatch(url):
+            self.error("bad-url", "net.base_url", f"expected the http:// or https:// address of the folder the site is published in "
+                       f"(no spaces, quotes, angle brackets, backslashes, user@, ?query or #fragment), got '{url}'")
 
     def stations(self) -> None:
         stations = self.d["stations"]

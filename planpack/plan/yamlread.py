@@ -10,6 +10,8 @@ places where YAML 1.1 tools would read the same text differently.
 
 from __future__ import annotations
 
+import os
+import stat
 from dataclasses import dataclass, field
 
 import yaml
@@ -111,7 +113,15 @@ def compose(text: str, out: Collector) -> Node | None:
             return None
         out.add("error", "yaml-syntax", "", f"YAML syntax: {problem}", line, col)
         return None
-    except yaml.YAMLError as exc:  # e.g. a reader error on a control character
+    except yaml.reader.ReaderError as exc:  # a character YAML does not allow anywhere
+        code = exc.character if isinstance(exc.character, int) else ord(str(exc.character)[:1] or "\0")
+        at = text.find(chr(code))  # libyaml reports a byte offset; the character itself is unambiguous
+        line, col = (text.count("\n", 0, at) + 1, at - (text.rfind("\n", 0, at) + 1) + 1) if at >= 0 else (0, 0)
+        out.add("error", "yaml-syntax", "", f"YAML syntax: the character U+{code:04X} is not allowed in YAML "
+                "(a control character or non-character); remove it or write it as an escape in a double-quoted string",
+                line, col)
+        return None
+    except yaml.YAMLError as exc:  # any other reader problem
         text_ = str(exc).splitlines()[0] if str(exc) else "malformed YAML"
         out.add("error", "yaml-syntax", "", f"YAML syntax: {text_}", 0, 0)
         return None
@@ -247,17 +257,50 @@ def _size(node: Node) -> int:
     return total
 
 
-def read_file(path: str, out: Collector) -> Node | None:
-    """Read, decode and compose a plan file; diagnose every way it can fail."""
+def read_bytes(path: str, out: Collector) -> bytes | None:
+    """The file's bytes (at most MAX_BYTES), or diagnose why they cannot be read.
+
+    Opened non-blocking, so a named pipe nobody writes to reads as empty instead
+    of hanging; devices (/dev/tty, /dev/zero) and sockets are refused. A pipe
+    that does carry a plan (``check <(git show HEAD:plan.yaml)``) still works.
+    """
     try:
-        with open(path, "rb") as fh:
+        fd = os.open(path, os.O_RDONLY | os.O_NONBLOCK)
+    except OSError as exc:
+        out.error("file-unreadable", "", f"cannot read the file: {exc.strerror or exc}")
+        return None
+    try:
+        mode = os.fstat(fd).st_mode
+        if stat.S_ISDIR(mode):
+            out.error("file-unreadable", "", "cannot read the file: it is a folder")
+            return None
+        if not (stat.S_ISREG(mode) or stat.S_ISFIFO(mode)):
+            out.error("file-unreadable", "", "cannot read the file: it is not a regular file (a device or socket); give a plan file")
+            return None
+        os.set_blocking(fd, True)  # a pipe with a writer: wait for its data
+        with os.fdopen(fd, "rb", closefd=False) as fh:
             data = fh.read(MAX_BYTES + 1)
     except OSError as exc:
         out.error("file-unreadable", "", f"cannot read the file: {exc.strerror or exc}")
         return None
+    finally:
+        os.close(fd)
     if len(data) > MAX_BYTES:
         out.error("file-too-large", "", f"the file is larger than {MAX_BYTES // (1024 * 1024)} MiB; a plan is far smaller")
         return None
+    return data
+
+
+def read_file(path: str, out: Collector) -> Node | None:
+    """Read, decode and compose a plan file; diagnose every way it can fail."""
+    data = read_bytes(path, out)
+    if data is None:
+        return None
+    return parse_bytes(data, out)
+
+
+def parse_bytes(data: bytes, out: Collector) -> Node | None:
+    """Decode and compose a plan file's bytes."""
     text = decode(data, out)
     if text is None:
         return None
