@@ -19,32 +19,8 @@ REPO = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(REPO / "tests" / "publish"))
 from synthetic import synthetic_data  # noqa: E402
 
-CHROMIUM = os.environ.get("PLANPACK_CHROMIUM", "/usr/bin/chromium")
-ARGS = ["--headless", "--no-sandbox", "--disable-gpu", "--disable-background-networking",
-        "--disable-component-update", "--disable-sync", "--no-first-run"]
+from tests.conftest import ARGS, CHROMIUM, _unavailable  # noqa: E402,F401 - shared with every browser test
 SUBPATH = "/nets/site/"
-
-
-def _unavailable(why: str):
-    if os.environ.get("PLANPACK_REQUIRE_BROWSER") == "1":
-        pytest.fail(f"browser tests required (PLANPACK_REQUIRE_BROWSER=1) but {why}")
-    pytest.skip(why)
-
-
-@pytest.fixture(scope="session")
-def browser():
-    try:
-        from playwright.sync_api import sync_playwright
-    except ImportError:
-        _unavailable("the playwright package is not installed")
-    if not (os.path.isfile(CHROMIUM) and os.access(CHROMIUM, os.X_OK)) and not shutil.which(CHROMIUM):
-        _unavailable(f"no Chromium at {CHROMIUM} (apt-get install chromium)")
-    with sync_playwright() as p:
-        b = p.chromium.launch(executable_path=CHROMIUM, args=ARGS, timeout=60_000)
-        try:
-            yield b
-        finally:
-            b.close()
 
 
 def _demo_data() -> list[dict]:

@@ -13,7 +13,6 @@ import re
 import pytest
 
 from planpack.publish import site
-from tests.browser.conftest import browser  # noqa: F401 - the shared Chromium fixture (skips or fails without it)
 from tests.hardening import hostile
 
 #: Every hostile string the site under test carries (bench/robustness.py counts them).
