@@ -77,7 +77,7 @@ def cmd_check(args) -> int:
         if r.ok and not args.no_analysis:
             from planpack.compile import compile_plan
 
-            diags += compile_plan(r.plan).diagnostics
+            diags += compile_plan(r.plan, cells=False).diagnostics
     print_diagnostics(diags, args.format)
     if args.format == "text" and not args.quiet:
         errors = sum(d.severity == "error" for d in diags)

@@ -49,8 +49,13 @@ def link_id(a: str, b: str) -> str:
     return f"{a}--{b}"
 
 
-def compile_plan(plan: Plan) -> CompiledPlan:
-    """Run every analysis of ``plan`` and return its CompiledPlan."""
+def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
+    """Run every analysis of ``plan`` and return its CompiledPlan.
+
+    ``cells=False`` leaves out the per-channel records of each link hour
+    (``links[].hours[].channels``): ``check`` needs only the warnings, and on a
+    large plan those records are most of the memory.
+    """
     out = Collector(plan.source)
     net = plan.net
     offset = localtime.utc_offset_min(net.timezone, localtime.reference_day(net.valid_from, net.valid_to))
@@ -91,18 +96,18 @@ def compile_plan(plan: Plan) -> CompiledPlan:
     for li, (a, b) in enumerate(links):
         hours = []
         for h in range(24):
-            cells = [{
+            records = [{
                 "channel": ch_ids[c], "freq_khz": plan.channels[c].khz,
                 "snr_db": _r(pred.snr_db[li, h, c], 1), "margin_db": _r(pred.margin_db[li, h, c], 1),
                 "good_days": _r(pred.good_days[li, h, c], 3), "via": pred.via_name(li, h, c),
                 "skip": bool(pred.skip[li, h, c]), "allowed": bool(allowed[h, c]),
-            } for c in range(len(ch_ids))]
+            } for c in range(len(ch_ids))] if cells else []
             hours.append({
                 "utc_hour": h, "local_time": labels[h],
                 "muf_mhz": _r(pred.muf_mhz[li, h]), "owf_mhz": _r(pred.owf_mhz[li, h]), "luf_mhz": _r(pred.luf_mhz[li, h]),
                 "elevation_deg": _r(pred.elevation_deg[li, h], 1),
                 "first": cid(choices.first[li][h]), "second": cid(choices.second[li][h]),
-                "channels": cells,
+                "channels": records,
             })
         data["links"].append({
             "id": link_id(a, b), "from": a, "to": b,
