@@ -68,7 +68,6 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
     pred = predict_links(plan, setup)
 
     station_ids = [s.id for s in plan.stations]
-    index = {sid: i for i, sid in enumerate(station_ids)}
     links = plan.links
     choices = schedule.link_choices(pred.good_days, pred.margin_db, allowed)
     net_sched = schedule.net_schedule(pred.good_days, pred.margin_db, allowed)
@@ -87,7 +86,6 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
         return None if i is None else ch_ids[i]
 
     data = _skeleton(plan, labels, allowed)
-    data["revision"] = plan_revision(plan.source, plan.sha256).to_dict()
     data["assumptions"] = {**data["assumptions"], **pred.assumptions}
     for s, sun in zip(data["stations"], pred.sun_utc_h):
         s["sun"] = _sun(sun, offset, pred.sun_date)
@@ -141,7 +139,6 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
     data["antennas"] = setup.to_dicts(plan, ch_ids)
     _antenna_warnings(plan, setup, pred, out)
     data["diagnostics"] = [d.to_dict() for d in out.sorted()]
-    del index
     return CompiledPlan(data, out.sorted(), pred)
 
 
