@@ -524,6 +524,16 @@ def _analyse_uncached(design: AntennaDesign, ground: GroundSpec,
     }
 
     warnings = list(lay.warnings)
+    for i, fk in enumerate(freqs):
+        if z[i].real <= 0.0:  # NEC-2's thin-wire model fails for wires very near the ground far below resonance
+            warnings.append({
+                "code": "solver-unreliable",
+                "severity": "warning",
+                "freq_khz": fk,
+                "message": (f"NEC-2 gives a non-physical feed resistance ({z[i].real:.1f} ohm) at {fk:g} kHz; "
+                            f"the figures for this channel are not to be trusted (wire ends too near the "
+                            f"ground for this frequency?); the link budget counts it as unusable"),
+            })
     if applies and not inside:
         warnings.append({
             "code": "outside-nvis-window",

@@ -169,3 +169,14 @@ def test_isotropic_defaults():
     assert isotropic_default_gain_dbi("whip") < isotropic_default_gain_dbi("folded-terminated")
     with pytest.raises(AntennaInputError):
         isotropic_default_gain_dbi("loop")
+
+
+def test_nonphysical_nec_solution_is_flagged_not_trusted():
+    """NEC-2 returns a negative feed resistance for an inverted-V whose ends come near the ground far below
+    its design frequency (a known limit of the thin-wire model near ground; from memory). It must be flagged."""
+    from planpack.antennas import AntennaDesign, GroundSpec, analyse_antenna
+
+    r = analyse_antenna(AntennaDesign("inverted-v", 5342, 9, apex_deg=110), GroundSpec("medium-dry", "none"), (3000.0, 5342.0))
+    flagged = {w["freq_khz"] for w in r.warnings if w["code"] == "solver-unreliable"}
+    assert flagged == {3000.0}
+    assert r.system_gain_table_dbi[0].max() < -100  # counted as unusable in the link budget
