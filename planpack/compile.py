@@ -64,7 +64,7 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
 
     setup = solve_station_antennas(plan, out)
     if out.has_errors:
-        return CompiledPlan(_skeleton(plan, labels, allowed), out.sorted())
+        return CompiledPlan(_skeleton(plan, labels, allowed, offset), out.sorted())
     pred = predict_links(plan, setup)
 
     station_ids = [s.id for s in plan.stations]
@@ -85,7 +85,7 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
     def cid(i):
         return None if i is None else ch_ids[i]
 
-    data = _skeleton(plan, labels, allowed)
+    data = _skeleton(plan, labels, allowed, offset)
     data["assumptions"] = {**data["assumptions"], **pred.assumptions}
     for s, sun in zip(data["stations"], pred.sun_utc_h):
         s["sun"] = _sun(sun, offset, pred.sun_date)
@@ -148,7 +148,7 @@ class _At:
     col: int
 
 
-def _skeleton(plan: Plan, labels: list[str], allowed: np.ndarray) -> dict:
+def _skeleton(plan: Plan, labels: list[str], allowed: np.ndarray, offset: int) -> dict:
     """The parts of plan.json that need no analysis."""
     net = plan.net
     control = plan.control
@@ -163,7 +163,7 @@ def _skeleton(plan: Plan, labels: list[str], allowed: np.ndarray) -> dict:
         "generator": {"name": "planpack", "version": __version__},
         "net": {
             "id": net.id, "title": net.title, "handling": net.handling, "timezone": net.timezone,
-            "utc_offset": _fmt_offset(localtime.utc_offset_min(net.timezone, localtime.reference_day(net.valid_from, net.valid_to))),
+            "utc_offset": _fmt_offset(offset),
             "valid": {"from": net.valid_from.isoformat(), "to": net.valid_to.isoformat()},
             "net_address": net.net_address, "base_url": net.base_url, "instructions_md": net.instructions,
             "target_good_days": net.target_good_days, "card_size": net.card_size,

@@ -14,6 +14,8 @@ SHEETS = ("a4", "letter")
 
 
 def register(subparsers) -> None:
+    from planpack.publish import pipeline
+
     c = subparsers.add_parser(
         "cards", help="write the pocket PDF field cards of a plan",
         description="Check and compile a plan, then write one card PDF per station (<station>.pdf), the net card "
@@ -26,12 +28,7 @@ def register(subparsers) -> None:
     c.add_argument("--impose", choices=SHEETS, default=None,
                    help="also write cards-SHEET.pdf: several cards a sheet with crop marks, backs mirrored "
                         "for long-edge duplex printing")
-    c.add_argument("--no-cache", action="store_true", help="compile afresh; do not read or write .planpack-cache/")
-    c.add_argument("--force", action="store_true", help="replace DIR even when it is not empty and was not made by planpack")
-    c.add_argument("--strict", action="store_true", help="treat warnings as errors: write nothing (exit 1)")
-    c.add_argument("--format", choices=("text", "json", "github"), default="text",
-                   help="how to print diagnostics: text (stderr), json or github annotations (stdout)")
-    c.add_argument("-q", "--quiet", action="store_true", help="no summary line")
+    pipeline.add_publish_options(c, "write")
     c.set_defaults(func=cmd_cards)
 
 

@@ -17,6 +17,8 @@ CARD_NAME = re.compile(r"[A-Za-z0-9][A-Za-z0-9_.-]{0,99}\.pdf")
 
 
 def register(subparsers) -> None:
+    from planpack.publish import pipeline
+
     b = subparsers.add_parser(
         "build", help="check, compile and publish plans as a static site with field cards",
         description="Check every plan (errors stop the build, as with 'check'), compile it, and write a static "
@@ -24,14 +26,8 @@ def register(subparsers) -> None:
                     "DIR/<net-id>/cards/. The site is built beside DIR and swapped in whole.")
     b.add_argument("plans", nargs="+", metavar="PLAN_OR_DIR", help="plan files or folders (every *.yaml under a folder, sorted)")
     b.add_argument("--out", required=True, metavar="DIR", help="the folder to publish into (replaced whole)")
-    b.add_argument("--force", action="store_true",
-                   help="replace DIR even when it is not empty and was not made by planpack")
-    b.add_argument("--strict", action="store_true", help="treat warnings as errors: build nothing (exit 1)")
     b.add_argument("--no-cards", action="store_true", help="do not render the PDF field cards")
-    b.add_argument("--no-cache", action="store_true", help="compile afresh; do not read or write .planpack-cache/")
-    b.add_argument("--format", choices=("text", "json", "github"), default="text",
-                   help="how to print diagnostics: text (stderr), json or github annotations (stdout)")
-    b.add_argument("-q", "--quiet", action="store_true", help="no progress and no summary line")
+    pipeline.add_publish_options(b, "build")
     b.set_defaults(func=cmd_build)
 
     from planpack.publish import cards_command

@@ -10,6 +10,17 @@ from dataclasses import dataclass
 from typing import Callable
 
 
+def add_publish_options(parser, verb: str) -> None:
+    """The options every publishing command shares; ``verb`` says what --strict stops ("build", "write")."""
+    parser.add_argument("--force", action="store_true",
+                        help="replace DIR even when it is not empty and was not made by planpack")
+    parser.add_argument("--strict", action="store_true", help=f"treat warnings as errors: {verb} nothing (exit 1)")
+    parser.add_argument("--no-cache", action="store_true", help="compile afresh; do not read or write .planpack-cache/")
+    parser.add_argument("--format", choices=("text", "json", "github"), default="text",
+                        help="how to print diagnostics: text (stderr), json or github annotations (stdout)")
+    parser.add_argument("-q", "--quiet", action="store_true", help="no progress and no summary line")
+
+
 @dataclass
 class Compiled:
     """The plans of one command run, compiled; ``code`` is 0 when publishing may go ahead."""
