@@ -282,24 +282,36 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
     win = d["window_mhz"]
     inside = [] if win is None else [c for c in plan.channels if win[0] <= c.mhz <= win[1]]
     if d["reason"] == schedule.NOT_AUTHORISED:
-        extra = "; " + ", ".join(ch_ids[c] for c in d["channels_outside_hours"]) + " would, but is not authorised then"
+        names = [ch_ids[c] for c in d["channels_outside_hours"]]
+        extra = (f"; {_and(names)} would serve {'it' if len(names) == 1 else 'them'}, but "
+                 f"{'is' if len(names) == 1 else 'are'} not authorised then.")
     elif win is not None and inside:
-        extra = (f"; {', '.join(c.id for c in inside)} lie{'s' if len(inside) == 1 else ''} in the usable window "
-                 f"{win[0]:.1f}-{win[1]:.1f} MHz but fall{'s' if len(inside) == 1 else ''} short of the target on too many days: "
-                 f"more power, a better-matched antenna or a quieter receiving site would help more than another channel")
+        extra = (f"; {_and([c.id for c in inside])} lie{'s' if len(inside) == 1 else ''} in the window "
+                 f"{win[0]:.2f}-{win[1]:.2f} MHz where a channel would serve, but fall{'s' if len(inside) == 1 else ''} "
+                 f"short of the target there on too many days: more power, a better-matched antenna or a quieter "
+                 f"receiving site would help more than another channel.")
     elif win is not None:
-        extra = f"; a channel between {win[0]:.1f} and {win[1]:.1f} MHz would"
+        extra = (f"; a channel between {win[0]:.2f} and {win[1]:.2f} MHz would serve them; "
+                 f"`planpack request` finds the fewest frequencies to ask for.")
     else:
-        extra = "; no single frequency would serve them all at those hours: request channels per link or split the net"
-    message = f"no assigned channel serves {pretty} {local} local ({utc} UTC){extra}"
+        why = d.get("no_window_reason") or "no single frequency would serve them all"
+        extra = (f"; {why}, so no one new channel closes this gap: request channels per link or split the net "
+                 f"(`planpack request` finds the fewest frequencies to ask for).")
+    message = f"no assigned channel serves {pretty} at {local} local ({utc} UTC){extra}"
     out.warning("channel-gap", "channels", f"channels: {message}", _At(*plan.where("channels")))
     return {
         "links": names, "utc_hours": hours, "local_hours": [labels[h] for h in hours],
         "window_mhz": None if win is None else [_r(win[0]), _r(win[1])],
         "reason": d["reason"], "net_window_mhz": None if d["net_window_mhz"] is None else [_r(x) for x in d["net_window_mhz"]],
         "channels_outside_hours": [ch_ids[c] for c in d["channels_outside_hours"]],
+        "no_window_reason": d.get("no_window_reason"),
         "message": message,
     }
+
+
+def _and(items: list[str]) -> str:
+    """'A', 'A and B', 'A, B and C'."""
+    return items[0] if len(items) == 1 else ", ".join(items[:-1]) + " and " + items[-1]
 
 
 def _scan_list(st: dict, station_ids: list[str], ch_ids: list[str]) -> dict:

@@ -621,3 +621,50 @@ def test_results_are_valid_allowed_and_deterministic(data, n, c, penalty, target
              [g.to_dict() for g in find_gaps(good, allowed, luf, owf, target=target)],
              scan_lists(good, allowed, np.linspace(2, 9, c), stations, 2.0).to_dict())
     assert again == (ch.to_dict(), s.to_dict(), [g.to_dict() for g in gaps], plan.to_dict())
+
+
+# --- windows on the band grid -------------------------------------------------------------
+
+from planpack.scheduling.windows import (MIN_WINDOW_MHZ, NO_WINDOW_NONE_REACHES,  # noqa: E402
+                                         NO_WINDOW_TOO_NARROW, serving_window)
+
+GRID = np.geomspace(1.5, 30.0, 41)
+
+
+def _bump(lo, hi, peak=0.95):
+    """good days 'peak' between lo and hi MHz, falling off linearly in log f over one grid step."""
+    step = np.log(GRID[1] / GRID[0])
+    d = np.maximum(np.log(lo) - np.log(GRID), np.log(GRID) - np.log(hi))
+    return np.clip(peak * (1 - np.maximum(d, 0) / step), 0, 1)
+
+
+def test_window_is_where_every_row_reaches_target_with_refined_edges():
+    rows = np.stack([_bump(2.5, 5.0), _bump(3.0, 6.0)])
+    w, why = serving_window(rows, GRID, 0.8)
+    assert why is None
+    assert 2.9 < w.low_mhz < 3.1 and 4.9 < w.high_mhz < 5.4
+    assert w.low_mhz <= w.best_mhz <= w.high_mhz and w.weakest_good_days >= 0.8
+
+
+def test_no_window_says_why():
+    rows = np.stack([_bump(2.0, 3.0), _bump(6.0, 9.0)])
+    assert serving_window(rows, GRID, 0.8) == (None, NO_WINDOW_NONE_REACHES)
+    narrow = np.zeros_like(GRID)
+    k = 10
+    narrow[k] = 0.81  # only one grid point just reaches the target: its run is far under 100 kHz
+    narrow[k - 1] = narrow[k + 1] = 0.0
+    w, why = serving_window(narrow[None], GRID, 0.8)
+    assert w is None and why == NO_WINDOW_TOO_NARROW and MIN_WINDOW_MHZ == 0.1
+
+
+def test_gaps_take_their_windows_from_the_grid():
+    good = np.zeros((2, H, 1))
+    good[:, 12:, 0] = 0.95  # the only channel works by day; night hours are a gap
+    grid = np.zeros((2, H, GRID.size))
+    grid[:, :, :] = _bump(2.4, 4.2)[None, None, :]
+    gaps = find_gaps(good, everywhere(1), np.full((2, H), 2.0), np.full((2, H), 5.0), target=0.8,
+                     grid_good_days=grid, grid_mhz=GRID)
+    (g,) = gaps
+    lo, hi = g.window_mhz
+    assert 2.3 < lo < 2.5 and 4.1 < hi < 4.4 and g.no_window_reason is None
+    assert g.net_window_mhz is not None

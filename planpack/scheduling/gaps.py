@@ -13,6 +13,7 @@ import numpy as np
 from . import _inputs
 from .hours import cyclic_runs
 from .net import net_channel_order
+from .windows import serving_window
 
 #: Default target: fraction of days the weakest link must work (plan default).
 DEFAULT_TARGET = 0.9
@@ -50,6 +51,8 @@ class Gap:
         (low, high) [MHz] for that hour's affected links, or None: when the
         whole-run window is empty these show where a request could be cut
         into a few parts.
+    no_window_reason : why ``window_mhz`` is None, in plain words (None when
+        there is a window).
     """
 
     links: tuple[int, ...]
@@ -61,6 +64,7 @@ class Gap:
     channels_outside_hours: tuple[int, ...]
     links_by_hour: tuple[tuple[int, ...], ...]
     window_by_hour_mhz: tuple[tuple[float, float] | None, ...]
+    no_window_reason: str | None = None
 
     def to_dict(self) -> dict:
         return {
@@ -74,11 +78,12 @@ class Gap:
             "links_by_hour": [list(x) for x in self.links_by_hour],
             "window_by_hour_mhz": [None if w is None else list(w)
                                    for w in self.window_by_hour_mhz],
+            "no_window_reason": self.no_window_reason,
         }
 
 
 def find_gaps(good_days, allowed, luf_mhz, owf_mhz, *, target: float = DEFAULT_TARGET,
-              margin_db=None) -> tuple[Gap, ...]:
+              margin_db=None, grid_good_days=None, grid_mhz=None) -> tuple[Gap, ...]:
     """Find the hours where no authorised channel reaches the target on the
     weakest link, grouped into runs with the frequency window that would
     close each.
@@ -95,6 +100,13 @@ def find_gaps(good_days, allowed, luf_mhz, owf_mhz, *, target: float = DEFAULT_T
     margin_db : array (links, 24, channels) [dB], optional
         Only breaks ties when picking the hour's best net channel (as in
         :func:`net_channel_order`); zeros if omitted.
+    grid_good_days : array (links, 24, g), optional
+        Fraction of good days on the band grid ``grid_mhz`` [0-1], with each
+        station's own antennas. When given, every window is where the
+        affected link-hours reach ``target`` on the grid
+        (:func:`planpack.scheduling.windows.serving_window`); otherwise
+        [max LUF, min OWF].
+    grid_mhz : array (g,), the band grid [MHz], ascending; with ``grid_good_days``.
 
     Returns
     -------
@@ -132,21 +144,38 @@ def find_gaps(good_days, allowed, luf_mhz, owf_mhz, *, target: float = DEFAULT_T
         else:
             reasons[h], affected[:, h] = SPLIT, below_best
 
+    if grid_good_days is not None:
+        grid = np.asarray(grid_good_days, float)
+        fg = np.asarray(grid_mhz, float)
+        if grid.shape[:2] != (n, _inputs.HOURS) or fg.ndim != 1 or grid.shape[2] != fg.size:
+            raise _inputs.ScheduleInputError(
+                f"grid_good_days: expected shape ({n}, 24, {np.size(fg)}); got {grid.shape}")
+
+        def window(mask: np.ndarray, hours) -> tuple[tuple[float, float] | None, str | None]:
+            rows = grid[:, hours, :][mask]            # (pairs, g)
+            w, why = serving_window(rows, fg, goal)
+            return (None if w is None else (w.low_mhz, w.high_mhz)), why
+    else:
+        def window(mask: np.ndarray, hours) -> tuple[tuple[float, float] | None, str | None]:
+            w = _window(luf[:, hours][mask], owf[:, hours][mask])
+            return w, None if w is not None else "the LUF lies above the OWF on some of them"
+
     gaps = []
     for reason, hours in cyclic_runs(reasons):
         pairs = affected[:, hours]
         links = tuple(int(i) for i in np.flatnonzero(pairs.any(axis=1)))
-        window = _window(luf[:, hours][pairs], owf[:, hours][pairs])
+        win, why = window(pairs, hours)
+        every = np.ones((n, len(hours)), dtype=bool)
         gaps.append(Gap(
             links=links, utc_hours=tuple(hours), reason=str(reason),
-            window_mhz=window, single_frequency=window is not None,
-            net_window_mhz=_window(luf[:, hours].ravel(), owf[:, hours].ravel()),
+            window_mhz=win, single_frequency=win is not None,
+            net_window_mhz=window(every, hours)[0],
             channels_outside_hours=tuple(int(k) for k in np.flatnonzero(
                 outside[hours].any(axis=0))),
             links_by_hour=tuple(tuple(int(i) for i in np.flatnonzero(affected[:, h]))
                                 for h in hours),
-            window_by_hour_mhz=tuple(_window(luf[affected[:, h], h], owf[affected[:, h], h])
-                                     for h in hours)))
+            window_by_hour_mhz=tuple(window(affected[:, [h]], [h])[0] for h in hours),
+            no_window_reason=why))
     return tuple(gaps)
 
 
