@@ -876,7 +876,6 @@ def _evaluate(links, r: _Rows, blk: _Block, month, ssn, *, skip=False, luf=False
     margin over the 90 % requirement (median SNR − required − lower-decile deviation).
     """
     p = r.p
-    m = r.link.size
     f = blk.freq.astype(_F32)
     f3 = f[None, None, :]
     req = blk.req[None, None, :]

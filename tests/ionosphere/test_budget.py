@@ -336,3 +336,17 @@ def test_bad_tables_and_pairs_are_clear():
         predict_link_hours(good, channels(), 2025, 1, 15.0, [0], [24], gains="channels")
     with pytest.raises(ValueError, match="link_index"):
         predict_link_hours(good, channels(), 2025, 1, 15.0, [5], [3], gains="channels")
+
+
+def test_a_subset_of_links_predicts_as_in_the_whole_set():
+    # own consistency: LinkSet.subset keeps each link's own antennas, per link and per station alike
+    tx = np.array([[50.0, 10.0], [50.0, 12.8], [49.0, 11.0]])
+    rx = np.array([[50.0, 12.8], [49.0, 11.0], [50.0, 10.0]])
+    rng = np.random.default_rng(6)
+    per_link = dataclasses.replace(links(tx, rx), tx_gain_dbi=rng.normal(0, 3, (3, len(FREQS), 91)),
+                                   rx_gain_dbi=rng.normal(0, 3, (3, len(FREQS), 91)))
+    assert per_link.tx_gain_dbi.dtype == np.float32
+    full = predict_month(per_link, channels(), 2025, 1, 15.0)
+    part = predict_month(per_link.subset([2, 0]), channels(), 2025, 1, 15.0)
+    np.testing.assert_array_equal(part.good_days, full.good_days[[2, 0]])
+    np.testing.assert_array_equal(part.grid_margin_db, full.grid_margin_db[[2, 0]])
