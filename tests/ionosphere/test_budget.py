@@ -1,4 +1,4 @@
-"""Link predictions: facts of the trade, monotonic behaviour and the public contract."""
+"""Link predictions: facts of the trade, monotonic behaviour, the band grid, the 90 % LUF and the public contract."""
 
 import dataclasses
 import json
@@ -6,8 +6,9 @@ import json
 import numpy as np
 import pytest
 
-from planpack.ionosphere import (VIA_F2, VIA_GROUND, VIA_NAMES, ChannelSet, LinkSet, methods,
-                                 predict_month, station_sun_times)
+from planpack import bandgrid
+from planpack.ionosphere import (VIA_F2, VIA_GROUND, VIA_NAMES, ChannelSet, LinkSet, budget, grid_requirement,
+                                 methods, predict_link_hours, predict_month, station_sun_times)
 
 FREQS = np.array([1.9, 2.8, 3.6, 4.6, 5.4, 7.1, 9.0, 12.0, 18.0])
 NIGHT_UTC = [0, 1, 2, 3, 22, 23]          # central Europe, local time about UTC+1
@@ -171,8 +172,6 @@ def test_station_sun_times():
 
 # --- the band grid, the 90 % LUF and the gain tables -----------------------------------------
 
-from planpack import bandgrid                                               # noqa: E402
-from planpack.ionosphere import budget, grid_requirement, predict_link_hours  # noqa: E402
 
 GRID = bandgrid.GRID_MHZ
 
