@@ -191,8 +191,8 @@ def station_links(tx_rows, rx_rows, pos, chan_tab, grid_tab=None, power_w=100.0,
 
 def test_luf_is_a_90_percent_figure():
     # source: P.533 §10 and P.372 Table 2 - with rural man-made noise (upper decile 9.2 dB) and the sky
-    # signal's lower decile of 8 dB, P(SNR >= required) = 0.9 where the median margin is sqrt(8² + 9.2²)
-    # = 12.2 dB. The LUF sits where the band grid's margin crosses 12.2 dB, and good days are about
+    # signal's lower decile of 8 dB (P.842; both values from memory, as in noise.py and budget.py),
+    # P(SNR >= required) = 0.9 where the median margin is sqrt(8² + 9.2²) = 12.2 dB. The LUF sits where the band grid's margin crosses 12.2 dB, and good days are about
     # 0.9 there (the MUF well above). 300 km link, 20 W, January, SSN 15, at noon (absorption sets the LUF).
     p = predict_month(links(A, (50.0, 14.2), power_w=20.0), channels(), 2025, 1, 15.0)
     need = float(np.hypot(8.0, 9.2))
