@@ -75,6 +75,57 @@ def absorption_index(solar_zenith_deg, r12):
     return (1.0 + 0.0037 * float(r12)) * factor
 
 
+def absorption_frequency_factor(freq_mhz, fH_mhz):
+    """Frequency term of the non-deviative D-layer absorption [-].
+
+    Parameters
+    ----------
+    freq_mhz : array_like
+        Frequency [MHz].
+    fH_mhz : array_like
+        Electron gyrofrequency [MHz].
+
+    Returns
+    -------
+    ndarray
+        1 / ((f + fH)^1.98 + 10.2) [MHz^-1.98].
+
+    References
+    ----------
+    George & Bradley (1974), eq. (1); see :func:`d_layer_absorption_db`.
+    """
+    f = np.asarray(freq_mhz, float) + np.asarray(fH_mhz, float)
+    return 1.0 / (f**1.98 + 10.2)                       # George & Bradley eq. 1, denominator
+
+
+def absorption_path_factor_db(solar_zenith_deg, r12, incidence_100km_deg, n_hops=1):
+    """Path term of the non-deviative D-layer absorption [dB MHz^1.98].
+
+    Parameters
+    ----------
+    solar_zenith_deg : array_like
+        Solar zenith angle where the ray crosses the D layer [deg].
+    r12 : float
+        12-month smoothed sunspot number [-].
+    incidence_100km_deg : array_like
+        Angle of incidence of the ray at 100 km [deg].
+    n_hops : array_like
+        Number of hops [-].
+
+    Returns
+    -------
+    ndarray
+        n · 677.2 · sec i100 · I(χ, R12); times
+        :func:`absorption_frequency_factor` it gives the loss [dB].
+
+    References
+    ----------
+    George & Bradley (1974), eq. (1); see :func:`d_layer_absorption_db`.
+    """
+    sec_i = 1.0 / np.cos(np.deg2rad(incidence_100km_deg))
+    return np.asarray(n_hops) * 677.2 * sec_i * absorption_index(solar_zenith_deg, r12)
+
+
 def d_layer_absorption_db(freq_mhz, fH_mhz, solar_zenith_deg, r12, incidence_100km_deg, n_hops=1):
     """Non-deviative D-layer absorption of a sky-wave mode.
 
@@ -98,16 +149,21 @@ def d_layer_absorption_db(freq_mhz, fH_mhz, solar_zenith_deg, r12, incidence_100
     ndarray
         Li = n · 677.2 · sec i100 · I / ((f + fH)^1.98 + 10.2) [dB].
 
+    Notes
+    -----
+    The loss is a path term (geometry, sun, solar cycle) times a frequency
+    term; the link budget uses the two factors separately so that the path
+    term is computed once per sample time and the frequency term once per
+    frequency.
+
     References
     ----------
     George & Bradley (1974), eq. (1); CCIR Report 252-2 (the absorption
     formula that preceded ITU-R P.533 eq. 20). Coefficients from memory.
     """
-    sec_i = 1.0 / np.cos(np.deg2rad(incidence_100km_deg))
-    idx = absorption_index(solar_zenith_deg, r12)
-    f = np.asarray(freq_mhz, float) + np.asarray(fH_mhz, float)
     # George & Bradley (1974) eq. 1, per hop (down and up through D)
-    return np.asarray(n_hops) * 677.2 * sec_i * idx / (f**1.98 + 10.2)
+    return (absorption_path_factor_db(solar_zenith_deg, r12, incidence_100km_deg, n_hops)
+            * absorption_frequency_factor(freq_mhz, fH_mhz))
 
 
 def above_muf_loss_db(freq_mhz, basic_muf_mhz, layer):

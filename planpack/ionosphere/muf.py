@@ -60,8 +60,7 @@ def _dmax_km(b, x):
 
 def _cd(z):
     # P.1240 eq. (2) / P.533 §3.5: Cd as a polynomial in Z = 1 − 2d/dmax
-    return (0.74 - 0.591 * z - 0.424 * z**2 - 0.090 * z**3
-            + 0.088 * z**4 + 0.181 * z**5 + 0.096 * z**6)
+    return 0.74 + z * (-0.591 + z * (-0.424 + z * (-0.090 + z * (0.088 + z * (0.181 + z * 0.096)))))
 
 
 def f2_basic_muf_mhz(hop_km, foF2_mhz, m3000f2, foE_mhz, fH_mhz):

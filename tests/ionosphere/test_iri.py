@@ -61,3 +61,47 @@ def test_bad_inputs_are_clear():
         iri.monthly_ionosphere([0.0], [0.0], 2025, 13, 10)
     with pytest.raises(ValueError, match="R12"):
         iri.monthly_ionosphere([0.0], [0.0], 2025, 1, -5)
+
+
+def test_foF2_and_m3000_are_linear_in_r12_and_saturate():
+    # source: ITU-R P.1239-3 §2 - the maps for R12 = 0 and 100, linear in R12 between and beyond them,
+    # held at R12 = 160 above it (saturation level from memory); tolerance 1e-9 relative
+    lat, lon, hours = [50.0, -20.0], [10.0, 30.0], [0.0, 6.5, 12.0]
+    at = {r: iri.monthly_ionosphere(lat, lon, 2025, 4, r, utc_hours=hours) for r in (0.0, 40.0, 100.0, 160.0, 250.0)}
+    for name in ("foF2_mhz", "m3000f2"):
+        lo, hi = getattr(at[0.0], name), getattr(at[100.0], name)
+        np.testing.assert_allclose(getattr(at[40.0], name), 0.6 * lo + 0.4 * hi, rtol=1e-9)
+        np.testing.assert_allclose(getattr(at[160.0], name), lo + 1.6 * (hi - lo), rtol=1e-9)
+        np.testing.assert_allclose(getattr(at[250.0], name), getattr(at[160.0], name), rtol=1e-12)
+    assert iri.solar_weight(250.0) == iri.solar_weight(160.0) == pytest.approx(1.6)
+
+
+def test_hmF2_is_pyiri_bse1979():
+    # source: PyIRI 0.1.7 hm_IRI (IRI's BSE-1979 option) at its own two solar levels; tolerance 1e-9
+    from PyIRI import main_library as ml
+
+    m3000 = np.array([[[3.1, 2.9], [2.6, 2.4]]])                 # (time, point, solar level)
+    foF2 = np.array([[[5.0, 8.0], [3.0, 12.0]]])
+    foE = np.array([[[2.5, 3.2], [0.6, 3.9]]])
+    modip = np.array([55.0, -10.0])
+    hm, _, _ = ml.hm_IRI(m3000, foE, foF2, modip, np.array([0.0, 100.0]))
+    for k, ig in enumerate((0.0, 100.0)):
+        r12 = float(ml.IG12_2_R12(ig))
+        got = iri.hmF2_bse1979_km(m3000[..., k], foF2[..., k], foE[..., k], modip, r12)
+        np.testing.assert_allclose(got, hm[..., k], rtol=1e-9)
+
+
+def test_foE_follows_the_sample_time_and_the_solar_flux():
+    # source: PyIRI 0.1.7 foE (NeQuick form) at the same effective zenith angle and flux Phi(R12)
+    # (P.1239 eq. 1 as PyIRI R12_2_F107); tolerance 1e-9
+    from PyIRI import main_library as ml
+
+    from planpack.ionosphere import sun
+
+    hours = np.array([6.0, 6.5, 7.0, 12.0])
+    m = iri.monthly_ionosphere([45.0], [10.0], 2025, 1, 120.0, utc_hours=hours)
+    chi = sun.solar_zenith_deg(45.0, 10.0, 2025, 1, 15, hours)
+    ref = ml.foE(1, ml.solzen_effective(chi), np.array([45.0]), float(ml.R12_2_F107(120.0)))
+    np.testing.assert_allclose(m.foE_mhz[0], np.ravel(ref), rtol=1e-9)
+    np.testing.assert_allclose(m.solar_zenith_deg[0], chi)
+    assert m.foE_mhz[0, 2] > m.foE_mhz[0, 0]          # the E layer grows through the dawn hour
