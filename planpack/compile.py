@@ -72,7 +72,7 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
     choices = schedule.link_choices(pred.good_days, pred.margin_db, allowed)
     net_sched = schedule.net_schedule(pred.good_days, pred.margin_db, allowed)
     gaps = schedule.find_gaps(pred.good_days, allowed, pred.luf_mhz, pred.owf_mhz, target=net.target_good_days,
-                              margin_db=pred.margin_db)
+                              margin_db=pred.margin_db, grid_good_days=pred.grid_good_days, grid_mhz=pred.grid_mhz)
     station_links = [tuple(i for i, (a, b) in enumerate(links) if sid in (a, b)) for sid in station_ids]
     daylight = _daylight(pred.sun_utc_h)
     scans = schedule.scan_lists(pred.good_days, allowed, np.array([c.mhz for c in plan.channels]), station_links,
@@ -103,6 +103,7 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
             hours.append({
                 "utc_hour": h, "local_time": labels[h],
                 "muf_mhz": _r(pred.muf_mhz[li, h]), "owf_mhz": _r(pred.owf_mhz[li, h]), "luf_mhz": _r(pred.luf_mhz[li, h]),
+                "luf_below_floor": bool(pred.luf_below_floor[li, h]),
                 "elevation_deg": _r(pred.elevation_deg[li, h], 1),
                 "first": cid(choices.first[li][h]), "second": cid(choices.second[li][h]),
                 "channels": records,

@@ -14,7 +14,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from planpack import localtime
+from planpack import bandgrid, localtime
 from planpack.ionosphere import VIA_NAMES, ChannelSet, LinkSet, methods, predict_month
 from planpack.ionosphere.groundwave import GROUND_CONSTANTS
 from planpack.ionosphere.iri import r12_from_f107
@@ -37,13 +37,17 @@ class LinkPredictions:
     n_hops: np.ndarray  # (n,)
     muf_mhz: np.ndarray  # (n, 24)
     owf_mhz: np.ndarray  # (n, 24)
-    luf_mhz: np.ndarray  # (n, 24), NaN where no frequency meets the requirement
+    luf_mhz: np.ndarray  # (n, 24), 90 % LUF; NaN where no frequency meets the requirement
+    luf_below_floor: np.ndarray  # (n, 24) bool: the 90 % LUF is at or below the band grid's floor
     elevation_deg: np.ndarray  # (n, 24)
     snr_db: np.ndarray  # (n, 24, c)
     margin_db: np.ndarray  # (n, 24, c)
     good_days: np.ndarray  # (n, 24, c)
     via: np.ndarray  # (n, 24, c) int codes of VIA_NAMES
     skip: np.ndarray  # (n, 24, c) bool
+    grid_mhz: np.ndarray  # (g,) the band grid
+    grid_good_days: np.ndarray  # (n, 24, g) worst case, with each station's own antennas
+    grid_margin_db: np.ndarray  # (n, 24, g) median margin of the worst case [dB]
     sun_utc_h: list  # per station (sunrise, sunset) UTC hours or None
     sun_date: str
     assumptions: dict
@@ -62,22 +66,34 @@ def ssn_levels(plan: Plan) -> list[float]:
 
 
 def link_set(plan: Plan, setup, pairs: list[tuple[str, str]]) -> LinkSet:
-    """The propagation package's input for directed (tx, rx) station pairs."""
-    st = {s.id: s for s in plan.stations}
+    """The propagation package's input for directed (tx, rx) station pairs.
+
+    Gain tables are per station (one row per station, links index them), on
+    the channels and on the band grid.
+    """
+    stations = list(plan.stations)
+    row = {s.id: i for i, s in enumerate(stations)}
+    st = {s.id: s for s in stations}
     kinds = {a.id: a.kind for a in plan.antennas}
-    gains = {s.id: setup.gain_table(s) for s in plan.stations}
+    gains = np.stack([setup.gain_table(s) for s in stations]).astype(np.float32)
+    grid_table = getattr(setup, "grid_gain_table", None)
+    grid = None if grid_table is None else np.stack([grid_table(s) for s in stations]).astype(np.float32)
     tx = [st[a] for a, _ in pairs]
     rx = [st[b] for _, b in pairs]
     # the ground wave runs over both stations' ground: take the poorer conductor (cautious)
     soils = [min((GROUND_CONSTANTS[_SOIL[t.ground.soil]], GROUND_CONSTANTS[_SOIL[r.ground.soil]]), key=lambda g: g[1])
              for t, r in zip(tx, rx)]
     cat = [CATEGORIES[_NOISE[r.noise]] for r in rx]
+    vertical = {s.id: setup.vertical(s, kinds) for s in stations}
     return LinkSet(
         tx_lat_deg=np.array([t.at.lat_deg for t in tx]), tx_lon_deg=np.array([t.at.lon_deg for t in tx]),
         rx_lat_deg=np.array([r.at.lat_deg for r in rx]), rx_lon_deg=np.array([r.at.lon_deg for r in rx]),
         tx_power_w=np.array([t.power_w for t in tx]),
-        tx_gain_dbi=np.stack([gains[t.id] for t in tx]), rx_gain_dbi=np.stack([gains[r.id] for r in rx]),
-        vertical=np.array([setup.vertical(t, kinds) and setup.vertical(r, kinds) for t, r in zip(tx, rx)]),
+        tx_gain_dbi=gains, rx_gain_dbi=gains,
+        tx_station=np.array([row[t.id] for t in tx], dtype=np.intp),
+        rx_station=np.array([row[r.id] for r in rx], dtype=np.intp),
+        tx_grid_gain_dbi=grid, rx_grid_gain_dbi=grid,
+        vertical=np.array([vertical[t.id] and vertical[r.id] for t, r in zip(tx, rx)], dtype=bool),
         ground_eps_r=np.array([g[0] for g in soils]), ground_sigma_s_m=np.array([g[1] for g in soils]),
         noise_c_db=np.array([k.c_db for k in cat]), noise_d=np.array([k.d for k in cat]),
         noise_margin_db=np.array([r.noise_margin_db for r in rx]),
@@ -103,6 +119,11 @@ def _worse(best: dict | None, new: dict) -> dict:
     out["muf_mhz"] = np.minimum(best["muf_mhz"], new["muf_mhz"])
     out["owf_mhz"] = np.minimum(best["owf_mhz"], new["owf_mhz"])
     out["luf_mhz"] = _nanmax(best["luf_mhz"], new["luf_mhz"])
+    out["luf_below_floor"] = np.where(new["luf_mhz"] > best["luf_mhz"], new["luf_below_floor"],
+                                      best["luf_below_floor"] & new["luf_below_floor"])
+    take_g = new["grid_good_days"] < best["grid_good_days"]
+    out["grid_good_days"] = np.where(take_g, new["grid_good_days"], best["grid_good_days"])
+    out["grid_margin_db"] = np.where(take_g, new["grid_margin_db"], best["grid_margin_db"])
     out["elevation_deg"] = np.where(new["muf_mhz"] < best["muf_mhz"], new["elevation_deg"], best["elevation_deg"])
     out["n_hops"] = np.maximum(best["n_hops"], new["n_hops"])
     return out
@@ -122,6 +143,11 @@ def _weaker_direction(p, n: int) -> dict:
     d["muf_mhz"] = np.minimum(p.muf_mhz[:n], p.muf_mhz[n:])
     d["owf_mhz"] = np.minimum(p.owf_mhz[:n], p.owf_mhz[n:])
     d["luf_mhz"] = _nanmax(p.luf_mhz[:n], p.luf_mhz[n:])
+    d["luf_below_floor"] = np.where(p.luf_mhz[n:] > p.luf_mhz[:n], p.luf_below_floor[n:],
+                                    p.luf_below_floor[:n] & p.luf_below_floor[n:])
+    take_g = p.grid_good_days[n:] < p.grid_good_days[:n]
+    d["grid_good_days"] = np.where(take_g, p.grid_good_days[n:], p.grid_good_days[:n])
+    d["grid_margin_db"] = np.where(take_g, p.grid_margin_db[n:], p.grid_margin_db[:n])
     d["elevation_deg"] = p.elevation_deg[:n]
     d["n_hops"] = np.maximum(p.n_hops[:n], p.n_hops[n:])
     return d
@@ -164,15 +190,20 @@ def predict_links(plan: Plan, setup) -> LinkPredictions:
         "antenna_gains": "NEC-2 (PyNEC) elevation patterns of each station's antenna over its own ground, azimuth-averaged, "
                          "less mismatch and feedline loss; the better antenna where a station has two",
     }
+    g = bandgrid.GRID_POINTS
     if worst is None:
-        return LinkPredictions(np.zeros(0), np.zeros(0), np.zeros(0, int), empty2, empty2, empty2, empty2, empty3, empty3,
-                               empty3, np.zeros((0, 24, c), int), np.zeros((0, 24, c), bool), sun, ref.isoformat(),
-                               assumptions, scenarios)
+        return LinkPredictions(np.zeros(0), np.zeros(0), np.zeros(0, int), empty2, empty2, empty2,
+                               np.zeros((0, 24), bool), empty2, empty3, empty3, empty3, np.zeros((0, 24, c), int),
+                               np.zeros((0, 24, c), bool), np.array(bandgrid.GRID_MHZ), np.zeros((0, 24, g)),
+                               np.zeros((0, 24, g)), sun, ref.isoformat(), assumptions, scenarios)
     return LinkPredictions(
         distance_km=first.distance_km[:n], azimuth_deg=first.azimuth_deg[:n], n_hops=worst["n_hops"],
         muf_mhz=worst["muf_mhz"], owf_mhz=worst["owf_mhz"], luf_mhz=worst["luf_mhz"],
+        luf_below_floor=worst["luf_below_floor"],
         elevation_deg=worst["elevation_deg"], snr_db=worst["snr_db"], margin_db=worst["margin_db"],
         good_days=worst["good_days"], via=worst["via"], skip=worst["skip"],
+        grid_mhz=np.array(first.grid_mhz), grid_good_days=worst["grid_good_days"],
+        grid_margin_db=worst["grid_margin_db"],
         sun_utc_h=sun, sun_date=ref.isoformat(), assumptions=assumptions, scenarios=scenarios,
     )
 
