@@ -419,7 +419,8 @@ def atmospheric_noise_db(freq_mhz, lat_deg, lon_deg, month, utc_hour, land=None,
         fa = fa + weight * (_select(cls, slope) * fam1 + _select(cls, offset))  # P.372 Fig. b
         du = du + weight * _select(cls, upper)                                 # P.372 Fig. c
         dl = dl + weight * _select(cls, lower)
-    return np.asarray(fa, float), np.asarray(du, float), np.asarray(dl, float)
+    fa, du, dl = np.broadcast_arrays(np.asarray(fa, float), np.asarray(du, float), np.asarray(dl, float))
+    return fa.copy(), du.copy(), dl.copy()
 
 
 @dataclasses.dataclass(frozen=True)
@@ -502,5 +503,5 @@ def describe() -> str:
             f"the land fraction within about {LAND_SMOOTHING_KM:g} km (GLOBE land mask), carried to each "
             "frequency by P.372-shaped curves Fa = a(f) Fam + b(f), with upper and lower deciles by frequency "
             "and time of day; summed with man-made and galactic noise by P.372 §8. The values are recalled "
-            "from P.372's maps and curves, not copied: expect about 6 dB of error, up to 15 dB where the "
+            "from memory of P.372's maps and curves, not copied: expect about 6 dB of error, up to 15 dB where the "
             "maps show regional detail.")
