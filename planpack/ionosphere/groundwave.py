@@ -55,8 +55,10 @@ HANDOVER_X = 0.5
 #: Modes kept at most in the residue series [-].
 MAX_MODES = 100
 
-#: A mode is dropped once x · |Im t_s| exceeds this [-] (e^−25 ≈ 1e−11).
-_MODE_CUTOFF = 25.0
+#: A mode is dropped once it is this many nepers below the first one,
+#: x · (|Im t_s| − |Im t_1|) [-] (e^−16 ≈ 1e−7); |Im t_1| ≥ 0.88 for any ground.
+_MODE_CUTOFF = 16.0
+_IM_T1_FLOOR = 0.8
 
 _C = np.exp(-2j * np.pi / 3)          # w(t) = Ai(t e^{−j2π/3}) satisfies w'' = t w
 _RAY = np.exp(-1j * np.pi / 3)        # the roots lie near this ray
@@ -284,8 +286,8 @@ def _cached_roots(q_bytes: bytes, n_modes: int):
 
 
 def _modes_needed(x):
-    """Modes needed for x · |Im t_s| to pass the cut-off (asymptotic roots)."""
-    im_needed = _MODE_CUTOFF / np.maximum(x, 1e-9)
+    """Modes needed for x · (|Im t_s| − |Im t_1|) to pass the cut-off (asymptotic roots)."""
+    im_needed = _MODE_CUTOFF / np.maximum(x, 1e-9) + _IM_T1_FLOOR
     s = (2.0 / (3.0 * np.pi)) * (im_needed / np.sin(np.pi / 3)) ** 1.5 + 1.0   # |t_s| ≈ (3π s/2)^(2/3)
     return np.clip(np.ceil(s), 4, MAX_MODES).astype(int)
 
@@ -396,6 +398,16 @@ def smooth_earth_attenuation(distance_km, freq_mhz, eps_r, sigma_s_m, vertical,
     return (out * np.where(theta > 0, spread, 1.0)).reshape(shape)
 
 
+def describe() -> str:
+    """One paragraph on the ground-wave model, for a plan's assumptions."""
+    return ("Ground wave: vertical or horizontal polarisation over a smooth round earth of effective radius "
+            f"4/3 x {EARTH_RADIUS_KM:g} km (as ITU-R P.368's curves assume) - the residue series of "
+            "Fock and Wait beyond about 0.5 Fock units (76 km at 2 MHz, 31 km at 30 MHz) and the "
+            "Sommerfeld-Norton flat-earth field with a matched curvature term inside it; ground constants "
+            "from ITU-R P.527; paths crossing land and sea by Millington's method, with land and sea "
+            "taken from the GLOBE land mask along the great circle.")
+
+
 def ground_wave_loss_db(distance_km, freq_mhz, eps_r, sigma_s_m, vertical):
     """Basic transmission loss of the ground wave between ideal radiators.
 
@@ -500,27 +512,101 @@ def millington_loss_db(section_km, eps_r, sigma_s_m, freq_mhz, vertical):
     method for mixed paths).
     """
     sec = np.maximum(np.asarray(section_km, float), 0.0)
-    eps = np.asarray(eps_r, float)
-    sig = np.asarray(sigma_s_m, float)
-    sec, eps, sig = np.broadcast_arrays(sec, eps, sig)
     f = np.asarray(freq_mhz, float)[..., None]
     v = np.asarray(vertical, bool)[..., None]
+    sec, eps, sig, f, v = np.broadcast_arrays(sec, np.asarray(eps_r, float), np.asarray(sigma_s_m, float), f, v)
 
-    def one_way(lengths, e, s):
+    def one_way(lengths, e, s, fr, vv):
         end = np.cumsum(lengths, axis=-1)
         start = end - lengths
-        l_end = _loss_or_zero(end, f, e, s, v)
-        l_start = _loss_or_zero(start, f, e, s, v)
+        used = lengths > 0                                   # empty sections add nothing
+        l_end = _loss_where(used, end, fr, e, s, vv)
+        l_start = _loss_where(used & (start > 0), start, fr, e, s, vv)   # L_i(0) = 0
         return np.sum(l_end - l_start, axis=-1)              # Millington (1949) eq. for E_R
 
-    forward = one_way(sec, eps, sig)
-    backward = one_way(sec[..., ::-1], eps[..., ::-1], sig[..., ::-1])
+    forward = one_way(sec, eps, sig, f, v)
+    flip = (Ellipsis, slice(None, None, -1))
+    backward = one_way(sec[flip], eps[flip], sig[flip], f, v)
     return 0.5 * (forward + backward)                       # mean of both directions
 
 
-def _loss_or_zero(distance_km, freq, eps, sig, vert):
-    d = np.asarray(distance_km, float)
-    d_b = np.broadcast_to(d, np.broadcast_shapes(d.shape, np.shape(freq), eps.shape, np.shape(vert)))
-    safe = np.where(d_b > 0, d_b, 1.0)
-    loss = ground_wave_loss_db(safe, freq, eps, sig, vert)
-    return np.where(d_b > 0, loss, 0.0)
+def _loss_where(mask, distance_km, freq, eps, sig, vert):
+    """ground_wave_loss_db where mask holds, 0 elsewhere (only those elements are computed)."""
+    out = np.zeros(mask.shape)
+    if mask.any():
+        out[mask] = ground_wave_loss_db(distance_km[mask], freq[mask], eps[mask], sig[mask], vert[mask])
+    return out
+
+
+def mixed_path_loss_db(section_km, sea, land_eps_r, land_sigma_s_m, freq_mhz, vertical):
+    """Ground-wave loss of many land/sea paths at many frequencies (Millington).
+
+    Parameters
+    ----------
+    section_km : array_like, shape (n, k)
+        Section lengths from transmitter to receiver [km], padded with 0
+        (as :func:`planpack.ionosphere.landsea.path_sections` returns them).
+    sea : array_like of bool, shape (n, k)
+        True for a sea section (ITU-R P.527 sea, εr 70, σ 5 S/m).
+    land_eps_r, land_sigma_s_m : array_like, shape (n,)
+        Ground constants of each path's land sections [-], [S/m].
+    freq_mhz : array_like, shape (c,)
+        Frequencies [MHz].
+    vertical : array_like of bool, shape (n,)
+        Polarisation of each path.
+
+    Returns
+    -------
+    ndarray, shape (n, c)
+        Basic transmission loss [dB], as :func:`ground_wave_loss_db` for a
+        one-ground path and :func:`millington_loss_db` otherwise.
+
+    Notes
+    -----
+    Paths that are the same, or the same reversed (A→B and B→A), are
+    computed once: Millington's mean of both directions is reciprocal.
+    """
+    sec = np.asarray(section_km, float)
+    sea = np.asarray(sea, bool) & (sec > 0)
+    n = sec.shape[0]
+    f = np.atleast_1d(np.asarray(freq_mhz, float))
+    eps_l = np.broadcast_to(np.asarray(land_eps_r, float), (n,))
+    sig_l = np.broadcast_to(np.asarray(land_sigma_s_m, float), (n,))
+    vert = np.broadcast_to(np.asarray(vertical, bool), (n,))
+    sea_eps, sea_sig = GROUND_CONSTANTS["sea"]
+
+    # one row per path: its non-empty sections, in the orientation that sorts first
+    keys = []
+    for i in range(n):
+        keep = sec[i] > 0
+        runs = tuple(zip(np.round(sec[i][keep], 3).tolist(), sea[i][keep].tolist()))
+        keys.append((min(runs, runs[::-1]), float(eps_l[i]), float(sig_l[i]), bool(vert[i])))
+    unique = {}
+    index = np.array([unique.setdefault(k, len(unique)) for k in keys], int)
+    rows = list(unique)
+    out = np.empty((len(rows), f.size))
+    single = [r for r, (runs, *_) in enumerate(rows) if len(runs) <= 1]
+    if single:
+        length = np.array([rows[r][0][0][0] if rows[r][0] else 0.0 for r in single])
+        on_sea = np.array([bool(rows[r][0] and rows[r][0][0][1]) for r in single])
+        eps = np.where(on_sea, sea_eps, [rows[r][1] for r in single])
+        sig = np.where(on_sea, sea_sig, [rows[r][2] for r in single])
+        out[single] = ground_wave_loss_db(length[:, None], f[None, :], eps[:, None], sig[:, None],
+                                          np.array([rows[r][3] for r in single])[:, None])
+    multi = [r for r in range(len(rows)) if r not in set(single)]
+    if multi:
+        k = max(len(rows[r][0]) for r in multi)
+        lens = np.zeros((len(multi), k))
+        eps = np.zeros((len(multi), k))
+        sig = np.zeros((len(multi), k))
+        for j, r in enumerate(multi):
+            runs, e_l, s_l, _ = rows[r]
+            lens[j, :len(runs)] = [x for x, _ in runs]
+            eps[j] = e_l
+            sig[j] = s_l
+            for m, (_, is_sea) in enumerate(runs):
+                if is_sea:
+                    eps[j, m], sig[j, m] = sea_eps, sea_sig
+        out[multi] = millington_loss_db(lens[:, None, :], eps[:, None, :], sig[:, None, :], f[None, :],
+                                        np.array([rows[r][3] for r in multi])[:, None])
+    return out[index]

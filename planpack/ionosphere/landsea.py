@@ -83,7 +83,6 @@ def _reduce_mask(path: Path) -> np.ndarray:
     return out
 
 
-@functools.cache
 def sea_pixel_counts(cache_dir: str | None = None) -> np.ndarray:
     """Sea pixels (0-36) in each 0.05° cell of the GLOBE land mask.
 
@@ -110,6 +109,11 @@ def sea_pixel_counts(cache_dir: str | None = None) -> np.ndarray:
     NOAA NGDC, GLOBE (Global Land One-km Base Elevation) v1.0 (1999), via
     the global-land-mask package 1.0.0 (T. Karin, MIT licence).
     """
+    return _sea_pixel_counts(None if cache_dir is None else str(cache_dir))
+
+
+@functools.cache
+def _sea_pixel_counts(cache_dir):
     cached = None
     if cache_dir is not None:
         cached = Path(cache_dir) / f"sea-cells-{_mask_version()}-{_BLOCK}.npy"
@@ -216,7 +220,7 @@ def great_circle_points(lat1_deg, lon1_deg, lat2_deg, lon2_deg, fraction):
     return lat, lon
 
 
-def path_sections(lat1_deg, lon1_deg, lat2_deg, lon2_deg, step_km: float = 1.0,
+def path_sections(lat1_deg, lon1_deg, lat2_deg, lon2_deg, step_km: float = 2.0,
                   cache_dir: str | None = None):
     """Land and sea sections along the great circle between pairs of points.
 
@@ -250,12 +254,20 @@ def path_sections(lat1_deg, lon1_deg, lat2_deg, lon2_deg, step_km: float = 1.0,
     if not step_km > 0:
         raise ValueError(f"step_km must be > 0, got {step_km!r}")
     a, b = _unit_vectors(lat1, lon1), _unit_vectors(lat2, lon2)
-    dist = EARTH_RADIUS_KM * np.arccos(np.clip(np.sum(a * b, axis=-1), -1.0, 1.0))
+    omega = np.arccos(np.clip(np.sum(a * b, axis=-1), -1.0, 1.0))
+    dist = EARTH_RADIUS_KM * omega
     pieces = np.maximum(1, np.ceil(dist / step_km).astype(int))
     path = np.repeat(np.arange(lat1.size), pieces)
     starts = np.cumsum(pieces) - pieces
-    within = np.arange(path.size) - starts[path]
-    lat, lon = great_circle_points(lat1[path], lon1[path], lat2[path], lon2[path], (within + 0.5) / pieces[path])
+    frac = (np.arange(path.size) - starts[path] + 0.5) / pieces[path]
+    om = omega[path]
+    small = om < 1e-9
+    s = np.where(small, 1.0, np.sin(om))
+    wa = np.where(small, 1.0 - frac, np.sin((1.0 - frac) * om) / s)      # spherical interpolation
+    wb = np.where(small, frac, np.sin(frac * om) / s)
+    p = wa[:, None] * a[path] + wb[:, None] * b[path]
+    lat = np.degrees(np.arctan2(p[:, 2], np.hypot(p[:, 0], p[:, 1])))
+    lon = np.degrees(np.arctan2(p[:, 1], p[:, 0]))
     sea = is_sea(lat, lon, cache_dir)
 
     change = np.ones(path.size, bool)                       # a new run starts here

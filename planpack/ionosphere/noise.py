@@ -216,30 +216,37 @@ def combine_noise_deciles(fa_db, upper_db, lower_db):
     n = len(fa_db)
     if not (n == len(upper_db) == len(lower_db)) or n == 0:
         raise ValueError("combine_noise_deciles needs the same number (≥ 1) of medians and deciles")
-    parts = np.broadcast_arrays(*[np.asarray(v, float) for v in (*fa_db, *upper_db, *lower_db)])
-    fa, du, dl = np.stack(parts[:n]), np.stack(parts[n:2 * n]), np.stack(parts[2 * n:])
-    present = np.isfinite(fa)
-    ref = np.max(np.where(present, fa, -np.inf), axis=0)
-    ref_safe = np.where(np.isfinite(ref), ref, 0.0)
+    fa = [np.asarray(v, float) for v in fa_db]
+    du = [np.maximum(np.asarray(v, float), 0.0) for v in upper_db]
+    dl = [np.maximum(np.asarray(v, float), 0.0) for v in lower_db]
+    shape = np.broadcast_shapes(*(x.shape for x in fa + du + dl))
+    ref = np.full(shape, -np.inf)
+    top_own = np.full(shape, -np.inf)
+    bottom_own = np.full(shape, -np.inf)
+    for f, u, lo in zip(fa, du, dl):
+        ref = np.maximum(ref, f)                                          # −inf (absent) never wins
+        top_own = np.maximum(top_own, f + u)
+        bottom_own = np.maximum(bottom_own, f - lo)
+    none = ~np.isfinite(ref)
+    ref_safe = np.where(none, 0.0, ref)
     c = _DB_PER_NEPER_POWER
     fits = []
-    for dev in (du, dl):
-        s = np.maximum(dev, 0.0) / DECILE_Z                               # σ of the half [dB]
-        y = np.where(present, fa - ref_safe, 0.0) / c
-        m1 = np.where(present, np.exp(y + s**2 / (2 * c**2)), 0.0)        # P.372 §8: α = Σ e^{F/c + σ²/2c²}
-        m2 = np.where(present, np.exp(2 * y + s**2 / c**2) * np.expm1(s**2 / c**2), 0.0)  # β
-        alpha, beta = m1.sum(axis=0), m2.sum(axis=0)
+    for devs in (du, dl):
+        alpha = np.zeros(shape)
+        beta = np.zeros(shape)
+        for f, dev in zip(fa, devs):
+            v = (dev / (DECILE_Z * c)) ** 2                               # (σ/c)², σ = D / 1.2816
+            m1 = np.exp(np.minimum(f - ref_safe, 0.0) / c + v / 2)        # P.372 §8: α = Σ e^{F/c + σ²/2c²}
+            m1 = np.where(np.isfinite(f), m1, 0.0)
+            alpha += m1
+            beta += m1**2 * np.expm1(v)                                   # β = Σ e^{2F/c + σ²/c²}(e^{σ²/c²} − 1)
         alpha_safe = np.where(alpha > 0, alpha, 1.0)
         var_t = c**2 * np.log1p(beta / alpha_safe**2)                     # σT² = c² ln(1 + β/α²)
-        f_t = ref_safe + c * np.log(alpha_safe) - var_t / (2 * c)          # FamT = c ln α − σT²/2c
-        fits.append((f_t, np.sqrt(var_t)))
+        fits.append((ref_safe + c * np.log(alpha_safe) - var_t / (2 * c), np.sqrt(var_t)))  # FamT
     (f_u, s_u), (f_l, s_l) = fits
     median = np.maximum(0.5 * (f_u + f_l), ref_safe)
-    top = np.maximum(f_u + DECILE_Z * s_u, np.max(np.where(present, fa + du, -np.inf), axis=0))
-    bottom = np.maximum(f_l - DECILE_Z * s_l, np.max(np.where(present, fa - dl, -np.inf), axis=0))
-    bottom = np.minimum(bottom, median)
-    top = np.maximum(top, median)
-    none = ~np.isfinite(ref)
+    top = np.maximum(np.maximum(f_u + DECILE_Z * s_u, top_own), median)
+    bottom = np.minimum(np.maximum(f_l - DECILE_Z * s_l, bottom_own), median)
     return (np.where(none, -np.inf, median), np.where(none, 0.0, top - median),
             np.where(none, 0.0, median - bottom))
 

@@ -285,3 +285,19 @@ def test_millington_vectorised_over_paths_and_frequencies():
     one = gw.millington_loss_db(sections[1], eps[1], sig[1], 3.0, True)
     assert float(one) == pytest.approx(out[1, 1], abs=1e-9)
     assert np.all(out[1] > out[0])                   # short land ends cost something
+
+
+def test_adaptive_mode_count_matches_the_full_series():
+    # the series keeps only the modes x needs; against all MAX_MODES modes: within 0.001 dB
+    for f, ground, vertical in ((2.0, SEA, True), (10.0, MEDIUM, True), (30.0, WET, True), (4.0, SEA, False)):
+        m, q = gw.curvature_parameters(f, *ground, vertical)
+        x = np.array([0.5, 0.7, 1.0, 2.0, 5.0, 20.0])
+        d = x * A_KM / m
+        full = np.abs(gw.residue_series_attenuation(x, q)) * np.sqrt((d / A_KM) / np.sin(d / A_KM))
+        ours = gw.smooth_earth_attenuation(d, f, *ground, vertical)
+        np.testing.assert_allclose(20 * np.log10(ours), 20 * np.log10(full), atol=1e-3)
+
+
+def test_describe_names_the_method_and_radius():
+    text = gw.describe()
+    assert "4/3" in text and "Millington" in text and "P.368" in text

@@ -83,18 +83,18 @@ def test_bad_step_is_refused():
 
 def test_disk_cache_round_trip_and_a_damaged_cache_is_rebuilt(tmp_path, grid, monkeypatch):
     monkeypatch.setattr(landsea, "_reduce_mask", lambda path: grid.copy())
-    landsea.sea_pixel_counts.cache_clear()
+    landsea._sea_pixel_counts.cache_clear()
     try:
         first = landsea.sea_pixel_counts(str(tmp_path))
         files = list(tmp_path.glob("sea-cells-*.npy"))
         assert len(files) == 1 and np.array_equal(first, grid)
-        landsea.sea_pixel_counts.cache_clear()
+        landsea._sea_pixel_counts.cache_clear()
         assert np.array_equal(landsea.sea_pixel_counts(str(tmp_path)), grid)
         files[0].write_bytes(b"not a numpy file")
-        landsea.sea_pixel_counts.cache_clear()
+        landsea._sea_pixel_counts.cache_clear()
         assert np.array_equal(landsea.sea_pixel_counts(str(tmp_path)), grid)
     finally:
-        landsea.sea_pixel_counts.cache_clear()
+        landsea._sea_pixel_counts.cache_clear()
 
 
 def test_missing_package_gives_a_clear_error(monkeypatch):
