@@ -19,8 +19,6 @@ Mixed land and sea paths use Millington's method (:func:`millington_loss_db`).
 
 from __future__ import annotations
 
-import functools
-
 import numpy as np
 from scipy.special import airye, ai_zeros, wofz
 
@@ -278,11 +276,19 @@ def residue_roots(q, n_modes=MAX_MODES):
     return t
 
 
-@functools.lru_cache(maxsize=32)
-def _cached_roots(q_bytes: bytes, n_modes: int):
-    roots = residue_roots(np.frombuffer(q_bytes, complex), n_modes)
-    roots.setflags(write=False)
-    return roots
+_ROOTS: dict[complex, np.ndarray] = {}
+_ROOTS_LIMIT = 50_000
+
+
+def _cached_roots(q_unique):
+    """Roots for each q, computed once per distinct q (grounds × frequencies) in a process."""
+    missing = [q for q in q_unique.tolist() if q not in _ROOTS]
+    if missing:
+        if len(_ROOTS) + len(missing) > _ROOTS_LIMIT:
+            _ROOTS.clear()
+        for q, row in zip(missing, residue_roots(np.array(missing, complex), MAX_MODES)):
+            _ROOTS[q] = row
+    return np.array([_ROOTS[q] for q in q_unique.tolist()]).reshape(q_unique.size, MAX_MODES)
 
 
 def _modes_needed(x):
@@ -368,16 +374,16 @@ def smooth_earth_attenuation(distance_km, freq_mhz, eps_r, sigma_s_m, vertical,
 
     uq, inverse = np.unique(q, return_inverse=True)
     inverse = inverse.ravel()
-    roots = _cached_roots(np.ascontiguousarray(uq).tobytes(), MAX_MODES)
+    roots = _cached_roots(uq)
 
     out = np.empty(d.shape)
     far = x >= HANDOVER_X
     if far.any():
         idx = np.flatnonzero(far)
-        need = _modes_needed(x[idx])
-        for n in np.unique(np.minimum(MAX_MODES, 2 ** np.ceil(np.log2(need)).astype(int))):
-            sel = idx[np.minimum(MAX_MODES, 2 ** np.ceil(np.log2(need)).astype(int)) == n]
-            w_sph = residue_series_attenuation(x[sel], q[sel], roots[inverse[sel], :n])   # Wait eq. residue series
+        bucket = np.minimum(MAX_MODES, 2 ** np.ceil(np.log2(_modes_needed(x[idx]))).astype(int))
+        for n in np.unique(bucket):                          # evaluate alike mode counts together
+            sel = idx[bucket == n]
+            w_sph = residue_series_attenuation(x[sel], q[sel], roots[inverse[sel], :n])   # residue series
             out[sel] = np.abs(w_sph)
     near = ~far
     if near.any():
@@ -393,7 +399,7 @@ def smooth_earth_attenuation(distance_km, freq_mhz, eps_r, sigma_s_m, vertical,
         c_of = np.zeros(uq.size)
         c_of[uidx] = c_db
         out[idx] = flat * 10.0 ** (c_of[inverse[idx]] * x[idx] ** 1.5 / 20.0)
-    theta = d / radius_km
+    theta = np.minimum(d / radius_km, 3.0)                  # beyond any distance on the earth
     spread = np.sqrt(theta / np.where(theta > 0, np.sin(theta), 1.0))   # spherical spreading
     return (out * np.where(theta > 0, spread, 1.0)).reshape(shape)
 

@@ -301,3 +301,20 @@ def test_adaptive_mode_count_matches_the_full_series():
 def test_describe_names_the_method_and_radius():
     text = gw.describe()
     assert "4/3" in text and "Millington" in text and "P.368" in text
+
+
+def test_mixed_path_loss_of_land_and_sea_sections():
+    # the harbour-to-harbour case: 145 km of sea keeps the sea loss; the same path reversed is
+    # the same; a pure-land path uses the link's own ground; a mixed one lies between
+    sections = np.array([[145.0, 0.0, 0.0], [3.0, 140.0, 2.0], [2.0, 140.0, 3.0], [145.0, 0.0, 0.0]])
+    sea = np.array([[True, False, False], [False, True, False], [False, True, False], [False, False, False]])
+    f = np.array([2.0, 2.5, 3.0])
+    out = gw.mixed_path_loss_db(sections, sea, MEDIUM[0], MEDIUM[1], f, True)
+    assert out.shape == (4, 3)
+    np.testing.assert_allclose(out[0], gw.ground_wave_loss_db(145.0, f, *SEA, True), atol=1e-9)
+    np.testing.assert_allclose(out[3], gw.ground_wave_loss_db(145.0, f, *MEDIUM, True), atol=1e-9)
+    np.testing.assert_allclose(out[1], out[2], atol=1e-9)                 # A->B and B->A
+    assert np.all((out[0] < out[1]) & (out[1] < out[3]))
+    by_hand = gw.millington_loss_db([3.0, 140.0, 2.0], [MEDIUM[0], SEA[0], MEDIUM[0]],
+                                    [MEDIUM[1], SEA[1], MEDIUM[1]], 2.5, True)
+    assert out[1, 1] == pytest.approx(float(by_hand), abs=1e-9)
