@@ -4,8 +4,8 @@ P.372 gives atmospheric noise as world maps of the median noise figure at
 1 MHz, Fam(1 MHz), for each season and 4-hour local-time block; curves that
 carry Fam(1 MHz) to other frequencies for that season and block; and charts
 of the upper and lower deciles Du, Dl. The maps are published as figures,
-and no package in the registries carries their numerical form. This module keeps P.372's structure and
-replaces the maps with a coarse climate model:
+and no package in the registries carries their numerical form. This module
+keeps P.372's structure and replaces the maps with a coarse climate model:
 
 * Fam(1 MHz) = (night level by latitude and local season, for land and for
   sea, mixed by the land fraction within about 1500 km) + (offset of the
@@ -232,6 +232,7 @@ def land_fraction(lat_deg, lon_deg):
         Gaussian-weighted (σ = 1500 km) land fraction [0-1] of the 5°
         cells of :data:`LAND_NINTHS_5DEG`, interpolated bilinearly.
     """
+    _require_finite(lat_deg=lat_deg, lon_deg=lon_deg)
     grid = _smoothed_land_grid()
     n_lat, n_lon = grid.shape
     fi = np.clip((90.0 - _CELL_DEG / 2 - np.clip(np.asarray(lat_deg, float), -90, 90)) / _CELL_DEG, 0, n_lat - 1)
@@ -242,6 +243,12 @@ def land_fraction(lat_deg, lon_deg):
     wi, wj = fi - i0, fj - np.floor(fj)
     return ((1 - wi) * ((1 - wj) * grid[i0, j0] + wj * grid[i0, j1])
             + wi * ((1 - wj) * grid[i0 + 1, j0] + wj * grid[i0 + 1, j1]))
+
+
+def _require_finite(**values):
+    for name, value in values.items():
+        if not np.all(np.isfinite(np.asarray(value, float))):
+            raise ValueError(f"{name} must be finite")
 
 
 def _by_season(season, abs_lat, knots, table):
@@ -398,6 +405,9 @@ def atmospheric_noise_db(freq_mhz, lat_deg, lon_deg, month, utc_hour, land=None,
     ITU-R P.372-16 §4 (atmospheric noise due to lightning: Fam(1 MHz) maps,
     frequency curves and deciles by season and 4-hour block).
     """
+    _require_finite(freq_mhz=freq_mhz, lat_deg=lat_deg, lon_deg=lon_deg, utc_hour=utc_hour)
+    if np.any(np.asarray(freq_mhz, float) <= 0):
+        raise ValueError("freq_mhz must be > 0")
     lt = local_mean_time_h(utc_hour, lon_deg)
     if land is None:
         land = land_fraction(lat_deg, lon_deg)

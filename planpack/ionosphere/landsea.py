@@ -141,6 +141,8 @@ def _sea_pixel_counts(cache_dir):
 def _cell_index(lat_deg, lon_deg):
     lat = np.clip(np.asarray(lat_deg, float), -90.0, 90.0)
     lon = np.asarray(lon_deg, float)
+    if not (np.all(np.isfinite(lat)) and np.all(np.isfinite(lon))):
+        raise ValueError("latitude and longitude must be finite")
     n_rows, n_cols = 180 * _SOURCE_PER_DEG // _BLOCK, 360 * _SOURCE_PER_DEG // _BLOCK
     i = np.clip(np.floor((90.0 - lat) / CELL_DEG).astype(int), 0, n_rows - 1)
     j = np.floor(np.mod(lon + 180.0, 360.0) / CELL_DEG).astype(int) % n_cols
@@ -253,6 +255,8 @@ def path_sections(lat1_deg, lon1_deg, lat2_deg, lon2_deg, step_km: float = 2.0,
     lat1, lon1, lat2, lon2 = np.broadcast_arrays(lat1, lon1, lat2, lon2)
     if not step_km > 0:
         raise ValueError(f"step_km must be > 0, got {step_km!r}")
+    if not all(np.all(np.isfinite(v)) for v in (lat1, lon1, lat2, lon2)):
+        raise ValueError("latitude and longitude must be finite")
     a, b = _unit_vectors(lat1, lon1), _unit_vectors(lat2, lon2)
     omega = np.arccos(np.clip(np.sum(a * b, axis=-1), -1.0, 1.0))
     dist = EARTH_RADIUS_KM * omega

@@ -181,3 +181,11 @@ def test_dominance_helper_flags_tropical_nights_and_not_a_european_winter():
 def test_describe_states_sources_and_uncertainty():
     text = atm.describe()
     assert "P.372" in text and "memory" in text and "dB" in text
+
+
+@pytest.mark.parametrize("kwargs, word", [({"lat_deg": np.nan}, "lat_deg"), ({"utc_hour": np.inf}, "utc_hour"),
+                                          ({"freq_mhz": 0.0}, "freq_mhz")])
+def test_non_finite_inputs_are_refused(kwargs, word):
+    args = dict(freq_mhz=3.0, lat_deg=5.0, lon_deg=0.0, month=8, utc_hour=0.0) | kwargs
+    with pytest.raises(ValueError, match=word):
+        atm.atmospheric_noise_db(**args)

@@ -110,3 +110,10 @@ def test_the_noise_models_coarse_land_table_matches_the_mask(grid):
     fresh = landsea.coarse_land_fraction(5.0)
     assert table.shape == fresh.shape == (36, 72)
     assert np.max(np.abs(table - fresh)) <= 1.0 / 18.0 + 1e-9
+
+
+def test_non_finite_positions_are_refused(grid):
+    with pytest.raises(ValueError, match="finite"):
+        landsea.is_sea(np.nan, 0.0)
+    with pytest.raises(ValueError, match="finite"):
+        landsea.path_sections([0.0], [0.0], [np.nan], [1.0])
