@@ -17,9 +17,10 @@ keeps P.372's structure and replaces the maps with a coarse climate model:
 * seasons are local: southern-hemisphere winter is June-August.
 
 Every number below is recalled from P.372's figures (from memory), not
-copied from them. The model's median departs from P.372's maps by about
-6 dB (one standard deviation) and by up to 15 dB where a map has regional
-detail a latitude band cannot carry (deserts, monsoon coasts, mountains).
+copied from them; figure numbers are those of the P.372-7/-8 editions.
+The model's median departs from P.372's maps by about 6 dB (one standard
+deviation) and by up to 15 dB where a map has regional detail a latitude
+band cannot carry (deserts, monsoon coasts, mountains).
 Use it to know when lightning noise rules a site, not to the decibel.
 """
 
@@ -170,7 +171,7 @@ def local_season(month, lat_deg):
 
     References
     ----------
-    ITU-R P.372-16 §4 (northern seasons Dec-Feb winter … Sep-Nov autumn;
+    ITU-R P.372, atmospheric noise due to lightning (northern seasons Dec-Feb winter … Sep-Nov autumn;
     in the southern hemisphere, winter is June-August).
     """
     m = np.asarray(month, int)
@@ -279,9 +280,9 @@ def fam_1mhz_db(lat_deg, lon_deg, month, block, land=None):
 
     References
     ----------
-    Structure of ITU-R P.372-16 §4 Figs. 15a-38a (map of Fam at 1 MHz per
-    season and time block); values of this module's coarse model (from
-    memory, see the module notes).
+    Structure of ITU-R P.372's atmospheric-noise figures, Figs. 15a-38a
+    (map of Fam at 1 MHz per season and time block); values of this
+    module's coarse model (from memory, see the module notes).
     """
     lat = np.asarray(lat_deg, float)
     abs_lat = np.minimum(np.abs(lat), 90.0)
@@ -330,9 +331,9 @@ def frequency_dependence_db(freq_mhz, fam1_db, block):
 
     References
     ----------
-    Structure of ITU-R P.372-16 §4 Figs. 15b-38b (variation of Fa with
-    frequency, one curve per Fam(1 MHz)); coefficients of this module
-    (from memory).
+    Structure of ITU-R P.372's atmospheric-noise figures, Figs. 15b-38b
+    (variation of Fa with frequency, one curve per Fam(1 MHz));
+    coefficients of this module (from memory).
     """
     cls = _BLOCK_CLASS[np.asarray(block, int)]
     a = _select(cls, _per_class_at(freq_mhz, _FREQ_KNOTS, _SLOPE_A, clamp=False))
@@ -357,7 +358,7 @@ def deciles_db(freq_mhz, block):
 
     References
     ----------
-    Structure of ITU-R P.372-16 §4 Figs. 15c-38c; values from memory.
+    Structure of ITU-R P.372's atmospheric-noise figures, Figs. 15c-38c; values from memory.
     """
     cls = _BLOCK_CLASS[np.asarray(block, int)]
     return (_select(cls, _per_class_at(freq_mhz, _DECILE_FREQ, _UPPER_DB, clamp=True)),
@@ -402,7 +403,7 @@ def atmospheric_noise_db(freq_mhz, lat_deg, lon_deg, month, utc_hour, land=None,
 
     References
     ----------
-    ITU-R P.372-16 §4 (atmospheric noise due to lightning: Fam(1 MHz) maps,
+    ITU-R P.372, atmospheric noise due to lightning (Fam(1 MHz) maps,
     frequency curves and deciles by season and 4-hour block).
     """
     _require_finite(freq_mhz=freq_mhz, lat_deg=lat_deg, lon_deg=lon_deg, utc_hour=utc_hour)
@@ -487,7 +488,7 @@ def atmospheric_dominance(lat_deg, lon_deg, months, freq_mhz, man_made_c_db, man
 
     References
     ----------
-    ITU-R P.372-16 §4 and §6 (atmospheric and man-made noise medians);
+    ITU-R P.372 (atmospheric noise due to lightning; man-made noise, Table 1);
     the threshold is this function's parameter (common practice, no source).
     """
     f = np.atleast_1d(np.asarray(freq_mhz, float))
@@ -507,11 +508,11 @@ def atmospheric_dominance(lat_deg, lon_deg, months, freq_mhz, man_made_c_db, man
 
 def describe() -> str:
     """One paragraph on the atmospheric noise model, for a plan's assumptions."""
-    return ("Atmospheric (lightning) noise: a coarse model with the structure of ITU-R P.372 §4 - "
-            "median Fam at 1 MHz by local season (southern seasons flipped) and 4-hour local-time block "
+    return ("Atmospheric (lightning) noise: a coarse model with the structure of ITU-R P.372's "
+            "atmospheric noise due to lightning - median Fam at 1 MHz by local season (southern seasons flipped) and 4-hour local-time block "
             "(interpolated between block centres), from night levels by latitude for land and sea mixed by "
             f"the land fraction within about {LAND_SMOOTHING_KM:g} km (GLOBE land mask), carried to each "
             "frequency by P.372-shaped curves Fa = a(f) Fam + b(f), with upper and lower deciles by frequency "
             "and time of day; summed with man-made and galactic noise by P.372 §8. The values are recalled "
-            "from memory of P.372's maps and curves, not copied: expect about 6 dB of error, up to 15 dB where the "
-            "maps show regional detail.")
+            "from memory of P.372's maps and curves, not copied: expect about 6 dB of error, up to 15 dB "
+            "where the maps show regional detail.")

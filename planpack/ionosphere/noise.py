@@ -279,7 +279,8 @@ def external_noise_db(freq_mhz, man_made_c_db, man_made_d, man_made_upper_db, ma
 
     References
     ----------
-    ITU-R P.372-16 §5, §6 (galactic, man-made), §4 (atmospheric); P.372 §8
+    ITU-R P.372-16 §5, §6 (galactic, man-made), atmospheric noise due to
+    lightning; P.372 §8
     (combination), see :func:`combine_noise_deciles`.
     """
     gal = CATEGORIES["galactic"]

@@ -54,7 +54,7 @@ def test_mid_latitude_winter_daytime_at_10_mhz_is_well_below_residential(lat, lo
 
 
 def test_night_is_noisier_than_day():
-    # source: ITU-R P.372 §4 (maps of Fam: night blocks far above day blocks)
+    # source: ITU-R P.372, atmospheric noise (maps of Fam: night blocks far above day blocks)
     for lat, lon in [(6.45, 3.40), (48.1, 11.6), (-23.5, -46.6), (35.0, -40.0)]:
         for month in (1, 4, 7, 10):
             night, _, _ = atm.atmospheric_noise_db(np.array([2.0, 5.0]), lat, lon, month, night_utc(lon, (0,)))
@@ -63,7 +63,7 @@ def test_night_is_noisier_than_day():
 
 
 def test_summer_is_noisier_than_winter_in_each_hemisphere():
-    # source: ITU-R P.372 §4 (seasonal maps); southern seasons are flipped
+    # source: ITU-R P.372, atmospheric noise (seasonal maps); southern seasons are flipped
     f = np.array([2.0, 4.0, 8.0])
     for lat, lon, summer, winter in [(48.1, 11.6, 7, 1), (39.0, -98.0, 7, 1), (-33.9, 151.2, 1, 7),
                                      (-34.6, -58.4, 1, 7)]:
@@ -73,7 +73,7 @@ def test_summer_is_noisier_than_winter_in_each_hemisphere():
 
 
 def test_southern_hemisphere_seasons_are_flipped():
-    # source: ITU-R P.372 §4 - in the southern hemisphere winter is June-August
+    # source: ITU-R P.372, atmospheric noise - in the southern hemisphere winter is June-August
     assert atm.local_season(1, -40.0) == atm.SEASONS.index("summer")
     assert atm.local_season(7, -40.0) == atm.SEASONS.index("winter")
     assert atm.local_season(7, 40.0) == atm.SEASONS.index("summer")
@@ -84,7 +84,7 @@ def test_southern_hemisphere_seasons_are_flipped():
 
 
 def test_tropics_above_mid_latitudes_above_high_latitudes():
-    # source: ITU-R P.372 §4 - lightning noise is strongest in the tropics, weakest near the poles
+    # source: ITU-R P.372, atmospheric noise - lightning noise is strongest in the tropics, weakest near the poles
     f = np.array([2.0, 5.0, 10.0])
     for month in (1, 4, 7, 10):
         levels = []
@@ -95,7 +95,7 @@ def test_tropics_above_mid_latitudes_above_high_latitudes():
 
 
 def test_land_is_noisier_than_sea():
-    # source: ITU-R P.372 §4 maps (maxima over the continents)
+    # source: ITU-R P.372 atmospheric-noise maps (maxima over the continents)
     land, _, _ = atm.atmospheric_noise_db(3.0, 10.0, 20.0, 7, 22.0, land=1.0)
     sea, _, _ = atm.atmospheric_noise_db(3.0, 10.0, 20.0, 7, 22.0, land=0.0)
     assert float(land) > float(sea) + 5.0
