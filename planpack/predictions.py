@@ -17,6 +17,7 @@ import numpy as np
 from planpack import bandgrid, localtime
 from planpack.ionosphere import VIA_NAMES, ChannelSet, LinkSet, methods, predict_month
 from planpack.ionosphere.groundwave import GROUND_CONSTANTS
+from planpack.ionosphere import landsea
 from planpack.ionosphere.iri import r12_from_f107
 from planpack.ionosphere.noise import CATEGORIES
 from planpack.ionosphere.sun import sunrise_sunset
@@ -80,9 +81,8 @@ def link_set(plan: Plan, setup, pairs: list[tuple[str, str]]) -> LinkSet:
     grid = None if grid_table is None else np.stack([grid_table(s) for s in stations]).astype(np.float32)
     tx = [st[a] for a, _ in pairs]
     rx = [st[b] for _, b in pairs]
-    # the ground wave runs over both stations' ground: take the poorer conductor (cautious)
-    soils = [min((GROUND_CONSTANTS[_SOIL[t.ground.soil]], GROUND_CONSTANTS[_SOIL[r.ground.soil]]), key=lambda g: g[1])
-             for t, r in zip(tx, rx)]
+    soils = [_land_ground(t, r) for t, r in zip(tx, rx)]
+    sections = _path_sections(tx, rx)
     cat = [CATEGORIES[_NOISE[r.noise]] for r in rx]
     vertical = {s.id: setup.vertical(s, kinds) for s in stations}
     return LinkSet(
@@ -99,7 +99,48 @@ def link_set(plan: Plan, setup, pairs: list[tuple[str, str]]) -> LinkSet:
         noise_margin_db=np.array([r.noise_margin_db for r in rx]),
         noise_upper_decile_db=np.array([k.upper_decile_db for k in cat]),
         noise_lower_decile_db=np.array([k.lower_decile_db for k in cat]),
+        path_section_km=None if sections is None else sections[0],
+        path_section_sea=None if sections is None else sections[1],
     )
+
+
+#: Soils that are water: their stations stand at the water's edge, not on land.
+_WATER = ("sea", "fresh-water")
+#: Ground of a path's land when both stations stand at water: P.527 medium-dry ground, the usual
+#: stand-in for land of unknown kind (common practice, no source).
+_DEFAULT_LAND = "medium-dry"
+#: A station on water soil whose first stretch of path the land mask calls land: that stretch is
+#: the coast under the station (the mask's cells are 0.05 deg), counted as water up to this length [km].
+_SHORE_KM = 6.0
+
+
+def _land_ground(t, r) -> tuple[float, float]:
+    """Ground constants of a path's land sections: the poorer conductor of the two stations' land soils."""
+    land = [s.ground.soil for s in (t, r) if s.ground.soil not in _WATER] or [_DEFAULT_LAND]
+    return min((GROUND_CONSTANTS[_SOIL[s]] for s in land), key=lambda g: g[1])
+
+
+def _path_sections(tx, rx):
+    """Land and sea sections of each path from the land mask (None where the mask is not installed).
+
+    Where a station stands on water soil, a short first or last land stretch is its own shore.
+    """
+    if not tx:
+        return None
+    try:
+        km, sea = landsea.path_sections([t.at.lat_deg for t in tx], [t.at.lon_deg for t in tx],
+                                        [r.at.lat_deg for r in rx], [r.at.lon_deg for r in rx])
+    except landsea.LandMaskUnavailable:
+        return None
+    sea = sea.copy()
+    counts = (km > 0).sum(axis=1)
+    for i, (t, r) in enumerate(zip(tx, rx)):
+        if t.ground.soil in _WATER and km[i, 0] <= _SHORE_KM:
+            sea[i, 0] = True
+        last = counts[i] - 1
+        if r.ground.soil in _WATER and last >= 0 and km[i, last] <= _SHORE_KM:
+            sea[i, last] = True
+    return km, sea
 
 
 def channel_set(plan: Plan) -> ChannelSet:

@@ -41,7 +41,7 @@ from scipy.special import ndtr
 
 from planpack import bandgrid
 
-from . import absorption, geodesy, groundwave, iri, muf, noise, sun
+from . import absorption, atmospheric, geodesy, groundwave, iri, muf, noise, sun
 
 #: Integer codes of the mode that carries a channel, and their names.
 VIA_NONE, VIA_GROUND, VIA_E, VIA_F2 = 0, 1, 2, 3
@@ -184,6 +184,13 @@ class LinkSet:
         grid uses the table of the nearest channel.
     tx_grid_ground_gain_dbi, rx_grid_ground_gain_dbi : ndarray (k, g), optional
         Ground-wave gains on the band grid [dBi]; default as for channels.
+    path_section_km : ndarray (n, s), optional
+        Lengths of the land and sea sections of each path, transmitter to
+        receiver, padded with 0 [km] (:func:`planpack.ionosphere.landsea.path_sections`).
+    path_section_sea : ndarray (n, s) of bool, optional
+        True for a sea section (ITU-R P.527 sea); land sections take
+        ``ground_eps_r`` and ``ground_sigma_s_m``. Without sections the whole
+        path is of that ground.
     """
 
     tx_lat_deg: np.ndarray
@@ -209,6 +216,10 @@ class LinkSet:
     rx_grid_gain_dbi: np.ndarray | None = None
     tx_grid_ground_gain_dbi: np.ndarray | None = None
     rx_grid_ground_gain_dbi: np.ndarray | None = None
+    path_section_km: np.ndarray | None = None
+    path_section_sea: np.ndarray | None = None
+    # ground-wave losses already computed for this link set: they depend on neither month nor sun
+    _memo: dict = dataclasses.field(default_factory=dict, init=False, compare=False, repr=False)
 
     def __post_init__(self):
         lat = np.atleast_1d(np.asarray(self.tx_lat_deg, float))
@@ -263,6 +274,14 @@ class LinkSet:
             ggr = ggt if same else _gain_table("rx_grid_gain_dbi", self.rx_grid_gain_dbi, gr.shape[0], g)
             object.__setattr__(self, "tx_grid_gain_dbi", ggt)
             object.__setattr__(self, "rx_grid_gain_dbi", ggr)
+        if (self.path_section_km is None) != (self.path_section_sea is None):
+            raise ValueError("path_section_km and path_section_sea: give both or neither")
+        if self.path_section_km is not None:
+            km = np.asarray(self.path_section_km, float)
+            if km.ndim != 2 or km.shape[0] != n[0] or not np.all(np.isfinite(km)) or np.any(km < 0):
+                raise ValueError(f"path_section_km: expected finite lengths >= 0 km of shape ({n[0]}, sections)")
+            object.__setattr__(self, "path_section_km", km)
+            object.__setattr__(self, "path_section_sea", _as("path_section_sea", self.path_section_sea, km.shape, bool))
         for name, tab in (("tx_grid_ground_gain_dbi", self.tx_grid_gain_dbi),
                           ("rx_grid_ground_gain_dbi", self.rx_grid_gain_dbi)):
             if getattr(self, name) is not None:
@@ -313,7 +332,7 @@ class LinkSet:
 
 _PER_LINK_FIELDS = ("tx_lat_deg", "tx_lon_deg", "rx_lat_deg", "rx_lon_deg", "tx_power_w", "vertical",
                     "ground_eps_r", "ground_sigma_s_m", "noise_c_db", "noise_d", "noise_margin_db",
-                    "noise_upper_decile_db", "noise_lower_decile_db")
+                    "noise_upper_decile_db", "noise_lower_decile_db", "path_section_km", "path_section_sea")
 _TABLE_FIELDS = ("tx_gain_dbi", "rx_gain_dbi", "tx_ground_gain_dbi", "rx_ground_gain_dbi",
                  "tx_grid_gain_dbi", "rx_grid_gain_dbi", "tx_grid_ground_gain_dbi", "rx_grid_ground_gain_dbi")
 
@@ -495,11 +514,11 @@ def received_noise(freq_mhz, bandwidth_hz, rx_lat_deg, rx_lon_deg, month, utc_h,
     freq_mhz, bandwidth_hz : ndarray (F,)
         Frequencies [MHz] and receiver noise bandwidths [Hz].
     rx_lat_deg, rx_lon_deg : ndarray (m,)
-        Receiver positions [deg] (for a model of atmospheric noise by place).
+        Receiver positions [deg]: they place the atmospheric noise.
     month : int
         Month 1..12 (season).
     utc_h : ndarray (m, S) or (S,)
-        UTC time of each sample [h] (for noise that follows the time of day).
+        UTC time of each sample [h]: atmospheric noise follows local time.
     foF2_rx_mhz : ndarray (m, S)
         F2 critical frequency over the receiver [MHz]; galactic noise reaches
         the ground only above it.
@@ -512,44 +531,45 @@ def received_noise(freq_mhz, bandwidth_hz, rx_lat_deg, rx_lon_deg, month, utc_h,
 
     Returns
     -------
-    noise_dbw, upper_db, lower_db : ndarray, broadcastable to (m, S, F), float32
+    noise_dbw, upper_db, lower_db : ndarray (m, S, F), float32
         Median noise power in each bandwidth [dBW] and the decile deviations
-        of the noise [dB] (those of the dominant source).
+        of the summed noise [dB].
 
     Notes
     -----
-    Today: man-made plus galactic noise, summed as powers; atmospheric
-    (lightning) noise is not in this function yet and only the plan's
-    per-station margin stands for it.
+    Man-made, galactic (above foF2 only) and atmospheric noise, each with its
+    own deciles, are summed by P.372 §8; the plan's noise margin is added on
+    top. Rows that share a receiver and sample times are computed once (a
+    net has far fewer receivers than links).
 
     References
     ----------
-    ITU-R P.372-16 §6 Table 1 (man-made and galactic Fa), Table 2 (man-made
-    deciles), §5 (galactic noise screened below foF2), §9 (powers add);
-    §2 (Pn = Fa + 10 log b − 204 dBW).
+    ITU-R P.372-16 §5 (galactic), §6 (man-made, Tables 1-2), atmospheric
+    noise (see :mod:`planpack.ionosphere.atmospheric`), §8 (combination of
+    noises); §2 (Pn = Fa + 10 log b - 204 dBW).
     """
     f = np.asarray(freq_mhz, float)
-    fam = noise.man_made_noise_db(f[None, None, :], man_made_c_db[:, None, None],
-                                  man_made_d[:, None, None])                   # (m, 1, F), P.372 Table 1
-    fag = noise.galactic_noise_db(f)[None, None, :]                            # (1, 1, F)
-    both = noise.combine_noise_db(fam, fag)                                    # P.372 §9
+    m = np.size(rx_lat_deg)
+    fof2 = np.asarray(foF2_rx_mhz, float).reshape(m, -1)
+    utc = np.broadcast_to(np.asarray(utc_h, float), fof2.shape)
+    per_row = [np.asarray(a, float).reshape(m) for a in
+               (rx_lat_deg, rx_lon_deg, man_made_c_db, man_made_d, man_made_upper_db, man_made_lower_db, margin_db)]
+    key = np.column_stack(per_row + [utc])
+    _, first, back = np.unique(key, axis=0, return_index=True, return_inverse=True)
+    lat, lon, c_db, d, up_mm, lo_mm, margin = (a[first][:, None, None] for a in per_row)
+    u_utc = utc[first][:, :, None]
+    f3 = f[None, None, :]
+    atm = atmospheric.atmospheric_noise_db(f3, lat, lon, int(month), u_utc)           # P.372 atmospheric
+    fa, up, lo = noise.external_noise_db(f3, c_db, d, up_mm, lo_mm, foF2_mhz=fof2[first][:, :, None],
+                                         atmospheric=atm)                              # P.372 §8
     bw_term = (10.0 * np.log10(np.asarray(bandwidth_hz, float)) + noise.KT0_DBW_HZ)[None, None, :]
-    margin = np.asarray(margin_db, float)[:, None, None]
-    pn_quiet = (fam + margin + bw_term).astype(_F32)                           # galactic screened
-    pn_gal = (both + margin + bw_term).astype(_F32)
-    gal = noise.CATEGORIES["galactic"]
-    gal_dom = fag > fam
-    up_gal = np.where(gal_dom, gal.upper_decile_db, man_made_upper_db[:, None, None]).astype(_F32)
-    lo_gal = np.where(gal_dom, gal.lower_decile_db, man_made_lower_db[:, None, None]).astype(_F32)
-    up_mm = np.asarray(man_made_upper_db, _F32)[:, None, None]
-    lo_mm = np.asarray(man_made_lower_db, _F32)[:, None, None]
-    open_sky = f.astype(_F32)[None, None, :] > np.asarray(foF2_rx_mhz, _F32)[:, :, None]   # P.372 §5
-    return (np.where(open_sky, pn_gal, pn_quiet), np.where(open_sky, up_gal, up_mm),
-            np.where(open_sky, lo_gal, lo_mm))
+    pn = fa + margin + bw_term                                                         # P.372 §2
+    back = np.ravel(back)
+    return pn.astype(_F32)[back], up.astype(_F32)[back], lo.astype(_F32)[back]
 
 
 def ground_wave_basic_loss(distance_km, freq_mhz, eps_r, sigma_s_m, vertical,
-                           tx_lat_deg, tx_lon_deg, rx_lat_deg, rx_lon_deg):
+                           tx_lat_deg, tx_lon_deg, rx_lat_deg, rx_lon_deg, *, sections=None):
     """Basic transmission loss of the ground wave between ideal radiators.
 
     Parameters
@@ -559,27 +579,53 @@ def ground_wave_basic_loss(distance_km, freq_mhz, eps_r, sigma_s_m, vertical,
     freq_mhz : ndarray (F,)
         Frequencies [MHz].
     eps_r, sigma_s_m : ndarray (m,)
-        Ground constants of the path [-], [S/m].
+        Ground constants of the path's land [-], [S/m].
     vertical : ndarray (m,) of bool
         Vertical polarisation at both ends.
     tx_lat_deg, tx_lon_deg, rx_lat_deg, rx_lon_deg : ndarray (m,)
-        End points [deg] (for a model of mixed land and sea paths).
+        End points [deg].
+    sections : (ndarray (m, s), ndarray (m, s) of bool), optional
+        Land and sea sections of each path [km] and which are sea; without
+        them the whole path is of the given ground.
 
     Returns
     -------
     ndarray (m, F)
-        Loss [dB], +inf where no ground wave is counted. Add the two
-        antennas' ground-wave gains to get the received power.
+        Loss [dB] over a smooth round earth; add the two antennas'
+        ground-wave gains to get the received power.
 
     References
     ----------
-    See :func:`planpack.ionosphere.groundwave.ground_wave_loss_db`.
+    :func:`planpack.ionosphere.groundwave.ground_wave_loss_db` (one ground) and
+    :func:`planpack.ionosphere.groundwave.mixed_path_loss_db` (Millington's
+    method for land and sea sections, ITU-R P.368 §4).
     """
-    return groundwave.ground_wave_loss_db(np.asarray(distance_km, float)[:, None],
-                                          np.asarray(freq_mhz, float)[None, :],
+    f = np.asarray(freq_mhz, float)
+    if sections is not None:
+        km, sea = sections
+        if np.any(np.asarray(sea, bool) & (np.asarray(km) > 0)):
+            return groundwave.mixed_path_loss_db(km, sea, eps_r, sigma_s_m, f, vertical)
+    return groundwave.ground_wave_loss_db(np.asarray(distance_km, float)[:, None], f[None, :],
                                           np.asarray(eps_r, float)[:, None],
                                           np.asarray(sigma_s_m, float)[:, None],
                                           np.asarray(vertical, bool)[:, None])
+
+
+def _ground_loss(links, lk, dist, freq):
+    """The ground-wave loss of rows ``lk`` [dB], (m, F), computed once per link set."""
+    key = (np.asarray(lk).tobytes(), np.asarray(freq, float).tobytes())
+    hit = links._memo.get(key)
+    if hit is not None:
+        return hit
+    sections = None
+    if links.path_section_km is not None:
+        sections = (links.path_section_km[lk], links.path_section_sea[lk])
+    loss = ground_wave_basic_loss(dist, freq, links.ground_eps_r[lk], links.ground_sigma_s_m[lk],
+                                  links.vertical[lk], links.tx_lat_deg[lk], links.tx_lon_deg[lk],
+                                  links.rx_lat_deg[lk], links.rx_lon_deg[lk], sections=sections)
+    if len(links._memo) < 4096:
+        links._memo[key] = loss
+    return loss
 
 
 # ---------------------------------------------------------------------------------------------
@@ -931,9 +977,7 @@ def _evaluate(links, r: _Rows, blk: _Block, month, ssn, *, skip=False, luf=False
     p_e *= p["e_ok"][:, None, None]
 
     # ground wave: steady signal, only the noise varies (its lower decile bounds the SNR's upper)
-    lg = ground_wave_basic_loss(p["dist"], blk.freq, links.ground_eps_r[lk], links.ground_sigma_s_m[lk],
-                                links.vertical[lk], links.tx_lat_deg[lk], links.tx_lon_deg[lk],
-                                links.rx_lat_deg[lk], links.rx_lon_deg[lk])
+    lg = _ground_loss(links, lk, p["dist"], blk.freq)
     pg = (10.0 * np.log10(links.tx_power_w[lk])[:, None] + _ground_gain(blk.tx_gg, r.tx_row, blk)
           + _ground_gain(blk.rx_gg, r.rx_row, blk) - lg).astype(_F32)
     snr_g = pg[:, None, :] - pn

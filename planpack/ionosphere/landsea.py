@@ -5,8 +5,13 @@ NOAA GLOBE 30-arc-second elevation grid, ocean wherever GLOBE has no land
 elevation (lakes count as land). That package loads the whole 21600 × 43200
 grid (about 1 GB) on import, so this module never imports it: it streams
 the package's compressed file once and keeps the count of sea pixels in
-each 0.05° cell (3600 × 7200 bytes, 26 MB), which takes about 2-3 s on first
-use in a process. A ``cache_dir`` keeps that grid on disk between runs.
+each 0.05° cell (3600 × 7200 bytes, 26 MB). That reduction takes several
+seconds, so planpack ships its result (``data/sea_cells.zlib``, 0.4 MB
+compressed) and reads it in a few tens of milliseconds; the tests check that
+the shipped grid equals a fresh reduction of the package's mask. To rebuild
+it after the package changes::
+
+    python -c "from planpack.ionosphere import landsea; landsea.write_shipped_grid()"
 """
 
 from __future__ import annotations
@@ -17,6 +22,7 @@ import importlib.util
 import os
 import tempfile
 import zipfile
+import zlib
 from pathlib import Path
 
 import numpy as np
@@ -83,14 +89,42 @@ def _reduce_mask(path: Path) -> np.ndarray:
     return out
 
 
+#: The reduced grid as planpack ships it: zlib-compressed uint8 counts, row-major (3600, 7200).
+SHIPPED_GRID = Path(__file__).with_name("data") / "sea_cells.zlib"
+_GRID_SHAPE = (180 * _SOURCE_PER_DEG // _BLOCK, 360 * _SOURCE_PER_DEG // _BLOCK)
+
+
+@functools.cache
+def _shipped_grid() -> np.ndarray | None:
+    try:
+        raw = zlib.decompress(SHIPPED_GRID.read_bytes())
+    except (OSError, zlib.error):
+        return None
+    if len(raw) != _GRID_SHAPE[0] * _GRID_SHAPE[1]:
+        return None
+    grid = np.frombuffer(raw, np.uint8).reshape(_GRID_SHAPE)
+    return grid if int(grid.max(initial=0)) <= _PIXELS_PER_CELL else None
+
+
+def write_shipped_grid(path: str | None = None) -> str:
+    """Reduce the package's mask afresh and write it where planpack ships it (or to ``path``)."""
+    target = Path(path) if path is not None else SHIPPED_GRID
+    grid = _reduce_mask(_mask_path())
+    target.parent.mkdir(parents=True, exist_ok=True)
+    target.write_bytes(zlib.compress(np.ascontiguousarray(grid).tobytes(), 9))
+    return str(target)
+
+
 def sea_pixel_counts(cache_dir: str | None = None) -> np.ndarray:
     """Sea pixels (0-36) in each 0.05° cell of the GLOBE land mask.
+
+    The grid planpack ships, else (when that file is missing) a fresh
+    reduction of the package's mask (:func:`package_sea_pixel_counts`).
 
     Parameters
     ----------
     cache_dir : str, optional
-        Folder to keep the reduced grid in between runs (written atomically,
-        keyed by the mask package's version).
+        For the fresh reduction only: as :func:`package_sea_pixel_counts`.
 
     Returns
     -------
@@ -109,6 +143,30 @@ def sea_pixel_counts(cache_dir: str | None = None) -> np.ndarray:
     NOAA NGDC, GLOBE (Global Land One-km Base Elevation) v1.0 (1999), via
     the global-land-mask package 1.0.0 (T. Karin, MIT licence).
     """
+    shipped = _shipped_grid()
+    if shipped is not None:
+        return shipped
+    return package_sea_pixel_counts(cache_dir)
+
+
+def package_sea_pixel_counts(cache_dir: str | None = None) -> np.ndarray:
+    """The same grid reduced afresh from the global-land-mask package's file.
+
+    Parameters
+    ----------
+    cache_dir : str, optional
+        Folder to keep the reduced grid in between runs (written atomically,
+        keyed by the mask package's version, never read through a link).
+
+    Returns
+    -------
+    ndarray of uint8, shape (3600, 7200), as :func:`sea_pixel_counts`.
+
+    Raises
+    ------
+    LandMaskUnavailable
+        If the mask package is missing or unreadable.
+    """
     return _sea_pixel_counts(None if cache_dir is None else str(cache_dir))
 
 
@@ -117,10 +175,17 @@ def _sea_pixel_counts(cache_dir):
     cached = None
     if cache_dir is not None:
         cached = Path(cache_dir) / f"sea-cells-{_mask_version()}-{_BLOCK}.npy"
-        if cached.is_file():
+        try:
+            fd = os.open(cached, os.O_RDONLY | getattr(os, "O_NOFOLLOW", 0))   # never through a link
+        except OSError:
+            fd = None
+        if fd is not None:
             try:
-                grid = np.load(cached, allow_pickle=False)
-                if grid.shape == (180 * _SOURCE_PER_DEG // _BLOCK, 360 * _SOURCE_PER_DEG // _BLOCK):
+                with os.fdopen(fd, "rb") as handle:
+                    grid = np.load(handle, allow_pickle=False)
+                if (grid.dtype == np.uint8 and grid.shape == (180 * _SOURCE_PER_DEG // _BLOCK, 360 * _SOURCE_PER_DEG // _BLOCK)
+                        and int(grid.max(initial=0)) <= _PIXELS_PER_CELL):
+                    grid.setflags(write=False)
                     return grid
             except (OSError, ValueError):
                 pass                                   # a damaged cache is rebuilt, never trusted
@@ -130,11 +195,18 @@ def _sea_pixel_counts(cache_dir):
         raise LandMaskUnavailable(f"cannot read the land mask of {MASK_DISTRIBUTION}: {exc}") from exc
     grid.setflags(write=False)
     if cached is not None:
-        cached.parent.mkdir(parents=True, exist_ok=True)
-        fd, tmp = tempfile.mkstemp(dir=cached.parent, suffix=".npy.tmp")
-        with os.fdopen(fd, "wb") as handle:
-            np.save(handle, grid, allow_pickle=False)
-        os.replace(tmp, cached)
+        try:
+            cached.parent.mkdir(parents=True, exist_ok=True)
+            fd, tmp = tempfile.mkstemp(dir=cached.parent, suffix=".npy.tmp")
+            try:
+                with os.fdopen(fd, "wb") as handle:
+                    np.save(handle, grid, allow_pickle=False)
+                os.replace(tmp, cached)
+            finally:
+                if os.path.exists(tmp):
+                    os.unlink(tmp)
+        except OSError:
+            pass                                       # an unwritable cache only costs time
     return grid
 
 

@@ -85,16 +85,25 @@ def test_disk_cache_round_trip_and_a_damaged_cache_is_rebuilt(tmp_path, grid, mo
     monkeypatch.setattr(landsea, "_reduce_mask", lambda path: grid.copy())
     landsea._sea_pixel_counts.cache_clear()
     try:
-        first = landsea.sea_pixel_counts(str(tmp_path))
+        first = landsea.package_sea_pixel_counts(str(tmp_path))
         files = list(tmp_path.glob("sea-cells-*.npy"))
         assert len(files) == 1 and np.array_equal(first, grid)
         landsea._sea_pixel_counts.cache_clear()
-        assert np.array_equal(landsea.sea_pixel_counts(str(tmp_path)), grid)
+        assert np.array_equal(landsea.package_sea_pixel_counts(str(tmp_path)), grid)
         files[0].write_bytes(b"not a numpy file")
         landsea._sea_pixel_counts.cache_clear()
-        assert np.array_equal(landsea.sea_pixel_counts(str(tmp_path)), grid)
+        assert np.array_equal(landsea.package_sea_pixel_counts(str(tmp_path)), grid)
     finally:
         landsea._sea_pixel_counts.cache_clear()
+
+
+def test_shipped_grid_is_the_packages_mask_reduced():
+    # source: global-land-mask 1.0.0 (NOAA GLOBE): the grid planpack ships must be exactly a fresh
+    # reduction of the package's own file, so shipping it changes nothing but the time it takes
+    pytest.importorskip("global_land_mask")
+    shipped = landsea._shipped_grid()
+    assert shipped is not None, f"{landsea.SHIPPED_GRID} is missing or damaged"
+    assert np.array_equal(shipped, landsea._reduce_mask(landsea._mask_path()))
 
 
 def test_missing_package_gives_a_clear_error(monkeypatch):

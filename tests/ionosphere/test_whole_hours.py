@@ -111,6 +111,6 @@ def test_noise_hook_sees_every_sample_time_and_the_month(monkeypatch):
 def test_ground_wave_hook_is_the_one_place_the_ground_wave_enters(monkeypatch):
     # with no loss at all in the ground-wave function, the ground wave carries every channel
     monkeypatch.setattr(budget, "ground_wave_basic_loss",
-                        lambda d, f, *a: np.full((np.size(d), np.size(f)), 60.0))
+                        lambda d, f, *a, **k: np.full((np.size(d), np.size(f)), 60.0))
     p = predict_month(_links(), _channels(), YEAR, MONTH, SSN)
     assert np.all(p.via == budget.VIA_GROUND)
