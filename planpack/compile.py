@@ -16,6 +16,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from planpack import __version__, localtime, safety, schedule
+from planpack.ionosphere import atmospheric, noise
 from planpack.plan.diagnostics import Collector, Diagnostic
 from planpack.plan.models import Plan
 from planpack.predictions import LinkPredictions, predict_links
@@ -139,6 +140,7 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
 
     data["antennas"] = setup.to_dicts(plan, ch_ids)
     _antenna_warnings(plan, setup, pred, out)
+    _noise_warnings(plan, labels, out)
     data["diagnostics"] = [d.to_dict() for d in out.sorted()]
     return CompiledPlan(data, out.sorted(), pred)
 
@@ -298,7 +300,8 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
         why = d.get("no_window_reason") or "no single frequency would serve them all"
         extra = (f"; {why}, so no one new channel closes this gap: request channels per link or split the net "
                  f"(`planpack request` finds the fewest frequencies to ask for).")
-    message = f"no assigned channel serves {pretty} at {local} local ({utc} UTC){extra}"
+    when = "at every hour of the day" if len(hours) == 24 else f"at {local} local ({utc} UTC)"
+    message = f"no assigned channel serves {pretty} {when}{extra}"
     out.warning("channel-gap", "channels", f"channels: {message}", _At(*plan.where("channels")))
     return {
         "links": names, "utc_hours": hours, "local_hours": [labels[h] for h in hours],
@@ -340,6 +343,41 @@ def _scan_list(st: dict, station_ids: list[str], ch_ids: list[str]) -> dict:
 
 def _swr_text(swr: float) -> str:
     return f"{swr:.1f}:1" if swr < 10 else f"{swr:.0f}:1"
+
+
+#: Excess of the median lightning noise over the site's man-made noise that counts as ruling it [dB]:
+#: four times the power, so the total rises by 7 dB or more (common practice, no source).
+ATMOSPHERIC_RULES_DB = 6.0
+
+
+def _noise_warnings(plan: Plan, labels: list[str], out: Collector) -> None:
+    """Warn, per receiving station, where ITU-R P.372 atmospheric noise probably rules the site."""
+    receivers = sorted({sid for link in plan.links for sid in link})
+    if not receivers:
+        return
+    months = [m for _, m in localtime.months_touched(plan.net.valid_from, plan.net.valid_to)]
+    freqs = np.array(sorted({c.mhz for c in plan.channels}))
+    by_id = {s.id: s for s in plan.stations}
+    for sid in receivers:
+        s = by_id[sid]
+        cat = noise.CATEGORIES[_NOISE_KEY[s.noise]]
+        found = atmospheric.atmospheric_dominance(s.at.lat_deg, s.at.lon_deg, months, freqs, cat.c_db, cat.d,
+                                                  threshold_db=ATMOSPHERIC_RULES_DB)
+        if not found:
+            continue
+        worst = max(found, key=lambda e: e.worst_excess_db)
+        hours = sorted({h for e in found for h in e.utc_hours})
+        when = ("at every hour" if len(hours) == 24 else
+                f"at {schedule.format_hours(hours, labels)} local ({schedule.format_hours(hours)} UTC)")
+        out.warning("atmospheric-noise", f"stations.{sid}.noise",
+                    f"stations.{sid}.noise: lightning noise probably rules this receiving site {when}, up to "
+                    f"{worst.worst_excess_db:.0f} dB above {s.noise} man-made noise ({worst.worst_freq_mhz:.2f} MHz at "
+                    f"{labels[worst.worst_utc_hour]} local); the predictions include it (coarse ITU-R P.372 model, "
+                    f"about 6 dB either way): expect weaker contacts there and prefer the highest channel that "
+                    f"still carries.", _At(*plan.where(f"stations.{sid}.noise")))
+
+
+_NOISE_KEY = {"city": "city", "residential": "residential", "rural": "rural", "quiet-rural": "quiet_rural"}
 
 
 def _antenna_warnings(plan: Plan, setup: StationAntennas, pred: LinkPredictions, out: Collector) -> None:

@@ -1388,7 +1388,7 @@ def methods():
     g = bandgrid.GRID_MHZ
     return {
         "structure": "ITU-R P.533-14 for paths up to about 2000 km: one control point at mid-path, "
-                     "E and F2 modes plus Norton ground wave; the best mode carries each channel",
+                     "E and F2 modes plus a smooth-earth ground wave; the best mode carries each channel",
         "whole_hours": "ionosphere, sun and budget evaluated every half hour (48 samples a day); each hour "
                        "slot's figures are the worst of its samples at h:00, h:30 and h+1:00: good days, SNR, "
                        "margin and mode from the sample with the fewest good days, the lowest MUF and OWF, "
@@ -1425,23 +1425,24 @@ def methods():
                       "at each sample time",
         "losses": f"free space over the slant path (P.533 eq. 19); above-MUF loss P.533 eqs. 24-25; "
                   f"{absorption.GROUND_REFLECTION_LOSS_DB:g} dB per extra hop; catch-all Lz = {absorption.LZ_DB:g} dB",
-        "noise": "ITU-R P.372 man-made Fam = c - d log10 f for the receiver's environment, plus galactic "
-                 "52 - 23 log10 f above the receiver's foF2 at each sample time, summed as powers, plus the plan's "
-                 "noise margin",
-        "ground_wave": "Sommerfeld-Norton flat-earth attenuation (scipy wofz) with ITU-R P.527 ground constants, "
-                       "out to 80/f^(1/3) km; antennas credited at most 4.77 dBi (short monopole on perfect ground)",
+        "noise": "ITU-R P.372: man-made Fam = c - d log10 f for the receiver's environment, galactic "
+                 "52 - 23 log10 f above the receiver's foF2 at each sample time, and atmospheric noise at the "
+                 "receiver's place, month and local time, each with its own deciles, summed by P.372 §8; "
+                 "then the plan's per-station noise margin on top",
+        "atmospheric_noise": atmospheric.describe(),
+        "ground_wave": groundwave.describe() + " Antennas credited at most 4.77 dBi (short monopole on perfect "
+                       "ground); a station on sea or fresh-water soil has its own shore counted as water.",
         "good_days": "P(MUF above f) from the MUF deciles x P(SNR >= required) from signal deciles "
                      f"+{SKY_SIGNAL_UPPER_DECILE_DB:g}/-{SKY_SIGNAL_LOWER_DECILE_DB:g} dB and P.372 noise deciles "
                      "(P.533 §10); ground wave: noise deciles only; the best mode counts",
         "not_modelled": [
-            "atmospheric (lightning) noise - covered only by the plan's per-station noise margin",
             "the day-to-day spread of the F2 MUF by season, time of day and solar activity (P.1239 decile "
             "tables): fixed decile ratios are used",
             "sporadic E, F1 layer modes and scatter beyond the above-MUF loss",
             "auroral and polar-cap absorption, geomagnetic storms, solar flares (sudden ionospheric disturbances)",
             "the P.533 two-control-point method for paths over 2000 km (mid-path point used)",
             "deviative absorption near the E-layer critical frequency",
-            "earth curvature for the ground wave beyond the flat-earth limit (counted as no ground wave)",
+            "terrain and buildings on the ground-wave path (a smooth earth is assumed)",
             "within-the-hour fading (left to the required SNR)",
         ],
         "libraries": {

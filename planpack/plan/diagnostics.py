@@ -71,6 +71,7 @@ CODES: dict[str, str] = {
     "nvis-height": "a dipole hung outside the NVIS height window",
     "nvis-whip": "a whip used alone on an NVIS net",
     "wasted-channel": "a channel that serves no link at any hour",
+    "atmospheric-noise": "lightning noise probably rules a receiving site at some hours",
 }
 
 
