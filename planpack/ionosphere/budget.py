@@ -601,6 +601,16 @@ def ground_wave_basic_loss(distance_km, freq_mhz, eps_r, sigma_s_m, vertical,
     method for land and sea sections, ITU-R P.368 §4).
     """
     f = np.asarray(freq_mhz, float)
+    if f.size > _GROUND_WAVE_POINTS:
+        # many frequencies (request candidates): the loss is smooth in log f, so compute it on a
+        # log grid across them and interpolate; each distinct frequency costs a residue-series solve
+        fg = np.geomspace(f.min(), f.max(), _GROUND_WAVE_POINTS)
+        at = ground_wave_basic_loss(distance_km, fg, eps_r, sigma_s_m, vertical, tx_lat_deg, tx_lon_deg,
+                                    rx_lat_deg, rx_lon_deg, sections=sections)
+        x, xg = np.log(f), np.log(fg)
+        finite = np.isfinite(at)
+        return np.stack([np.interp(x, xg[ok], row[ok]) if ok.sum() > 1 else np.full(f.size, np.inf)
+                         for row, ok in zip(at, finite)]) if len(at) else np.zeros((0, f.size))
     if sections is not None:
         km, sea = sections
         if np.any(np.asarray(sea, bool) & (np.asarray(km) > 0)):
@@ -609,6 +619,11 @@ def ground_wave_basic_loss(distance_km, freq_mhz, eps_r, sigma_s_m, vertical,
                                           np.asarray(eps_r, float)[:, None],
                                           np.asarray(sigma_s_m, float)[:, None],
                                           np.asarray(vertical, bool)[:, None])
+
+
+#: Above this many frequencies the ground wave is computed on a log grid across them and
+#: interpolated (it is smooth in log f; tests/ionosphere/test_budget.py bounds the error).
+_GROUND_WAVE_POINTS = 48
 
 
 def _ground_loss(links, lk, dist, freq):
