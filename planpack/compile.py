@@ -15,7 +15,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from planpack import __version__, localtime, safety, schedule
+from planpack import __version__, briefing, localtime, safety, schedule
 from planpack.plan.diagnostics import Collector, Diagnostic
 from planpack.plan.models import Plan
 from planpack.predictions import LinkPredictions, predict_links
@@ -131,13 +131,14 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
     sd = scans.to_dict()
     data["scan_lists"] = [_scan_list(st, station_ids, ch_ids) for st in sd["stations"]]
     data["scan_list_rules"] = {"useful_good_days": sd["useful_good_days"], "formula": sd["formula"]}
-    for c in sd["unused_channels"]:
+    for c in briefing.reconcile_scan_lists(data, plan, sd["unused_channels"]):
         out.warning("wasted-channel", f"channels[{c}]",
                     f"channels[{c}]: channel {ch_ids[c]} ({plan.channels[c].khz:g} kHz) serves no link at any hour in "
                     f"the validity period; scanning it wastes call time", _At(*plan.where(f"channels[{c}]")))
 
     data["antennas"] = setup.to_dicts(plan, ch_ids)
     _antenna_warnings(plan, setup, pred, out)
+    briefing.add_briefing(data, plan, setup, pred, gaps, out)
     data["diagnostics"] = [d.to_dict() for d in out.sorted()]
     return CompiledPlan(data, out.sorted(), pred)
 
@@ -163,7 +164,8 @@ def _skeleton(plan: Plan, labels: list[str], allowed: np.ndarray, offset: int) -
         "generator": {"name": "planpack", "version": __version__},
         "net": {
             "id": net.id, "title": net.title, "handling": net.handling, "timezone": net.timezone,
-            "utc_offset": _fmt_offset(offset),
+            "utc_offset": _fmt_offset(offset), **briefing.clock(net.timezone, net.valid_from, net.valid_to, offset),
+            "fallback": net.fallback,
             "valid": {"from": net.valid_from.isoformat(), "to": net.valid_to.isoformat()},
             "net_address": net.net_address, "base_url": net.base_url, "instructions_md": net.instructions,
             "target_good_days": net.target_good_days, "card_size": net.card_size,

@@ -157,3 +157,70 @@ def synthetic_data(net_id: str = "test-net", *, title: str = "Lakeside exercise 
                          "message": "no channel serves ops--lake at 03:00-04:00 local"}],
     }
     return copy.deepcopy(data)
+
+
+#: A small invented net over a clock change (Europe/London leaves UTC for UTC+1 on 2027-03-28, the EU
+#: summer-time rule) whose only channels are too high for the night: it has gaps on every link, weak
+#: hours, a member with a whip and a dipole, and a member that says people can be kept only 0.5 m from
+#: its antennas at 400 W. Used by the briefing tests and the one-source cross-check of site, cards and
+#: plan.json.
+GAPPY_PLAN = """\
+planpack: 1
+net:
+  id: moor-gaps
+  title: Moorland rescue practice net
+  timezone: Europe/London
+  valid: {from: 2027-03-15, to: 2027-04-10}
+  solar: {ssn: 50}
+  net_address: MOORNET
+  links: hub
+  target_good_days: 0.8
+  fallback: call control by land line
+stations:
+  base:
+    name: Moor base
+    address: MRBASE
+    role: control
+    at: {lat: 54.45, lon: -2.97}
+    power_w: 100
+    noise: rural
+    antenna: base-dipole
+    ground: {soil: medium-dry, system: rods}
+  fell-team-with-a-long-name:
+    name: Fell team at the far upper beck sheepfold
+    address: MRFELL
+    at: {lat: 54.95, lon: -2.35}
+    power_w: 50
+    noise: quiet-rural
+    antenna: [team-whip, team-dipole]
+    ground: {soil: very-dry, system: radials}
+  dale:
+    name: Dale post
+    address: MRDALE
+    at: {lat: 54.05, lon: -2.10}
+    power_w: 400
+    noise: residential
+    antenna: team-dipole
+    ground: {soil: wet, system: counterpoise}
+    clearance_m: 0.5
+channels:
+  - {id: M1, khz: 5380, mode: usb}
+  - {id: M2, khz: 7090, mode: usb}
+  - {id: M3, khz: 10130, mode: usb, hours: "08:00-18:00"}
+antennas:
+  base-dipole:
+    kind: dipole
+    design_khz: 5380
+    height_m: 8
+    matching: wide-tuner
+  team-dipole:
+    kind: inverted-v
+    design_khz: 6200
+    height_m: 9
+    apex_deg: 120
+    matching: wide-tuner
+  team-whip:
+    kind: whip
+    length_m: 3
+    height_m: 1
+"""
