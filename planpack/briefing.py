@@ -186,6 +186,36 @@ def _hour_rows(firsts, first_fracs, seconds, second_fracs, target: float, net: d
     return rows
 
 
+def _window(luf_mhz: float | None, owf_mhz: float | None) -> list[float] | None:
+    """The usable window [LUF, OWF] [MHz] as the gap finder takes it, or None when there is none."""
+    if luf_mhz is None or owf_mhz is None or luf_mhz != luf_mhz or owf_mhz != owf_mhz or luf_mhz >= owf_mhz:
+        return None
+    return [round(float(luf_mhz), 2), round(float(owf_mhz), 2)]
+
+
+def _inside(freq_khz: float, win: list[float] | None) -> bool:
+    return win is not None and win[0] <= freq_khz / 1000.0 <= win[1]
+
+
+def _net_grid(data: dict, plan: Plan, pred) -> None:
+    """Per net hour and channel: the weakest link's good days, whether authorised, whether inside the net's
+    window (the highest LUF to the lowest OWF over the links): the cells of the schedule's timetable."""
+    allowed = {c["id"]: set(c["allowed_utc_hours"]) for c in data["channels"]}
+    n = pred.good_days.shape[0]
+    for h, hr in enumerate(data["net_schedule"]["hours"]):
+        win = None
+        if n:
+            win = _window(float(np.max(pred.luf_mhz[:, h])) if not np.isnan(pred.luf_mhz[:, h]).any() else None,
+                          float(np.min(pred.owf_mhz[:, h])))
+        hr["window_mhz"] = win
+        hr["channels"] = [{
+            "channel": ch.id,
+            "good_days_pct": pct(round(float(np.min(pred.good_days[:, h, c])), 3)) if n else None,
+            "allowed": h in allowed[ch.id],
+            "in_window": _inside(ch.khz, win),
+        } for c, ch in enumerate(plan.channels)]
+
+
 def _net_hours(data: dict, labels, plan_text: str | None) -> None:
     ns = data["net_schedule"]
     hours = ns["hours"]
@@ -214,6 +244,7 @@ def _gap_links_by_hour(data: dict, gaps, link_ids: list[str], labels: list[list[
         entry["links_by_hour"] = [sorted(at_hour.get(h, set()) & set(entry["links"]), key=link_ids.index)
                                   for h in entry["utc_hours"]]
         entry["local_by_period"] = _local_by_period(entry["utc_hours"], labels)
+        entry["utc_text"] = format_hours(entry["utc_hours"])
 
 
 def _link_hours(data: dict, good: np.ndarray, ch_index: dict[str, int], labels) -> None:
@@ -233,11 +264,16 @@ def _link_hours(data: dict, good: np.ndarray, ch_index: dict[str, int], labels) 
             hr["weak"] = bool(f is None or f < target - 1e-9)
             hr["gap"] = h in gap_hours[ln["id"]]
             hr["local_times"] = [lab[h] for lab in labels]
+            win = _window(hr.get("luf_mhz"), hr.get("owf_mhz"))
+            hr["window_mhz"] = win
             for cell in hr.get("channels", []):
                 cell["good_days_pct"] = pct(cell["good_days"])
+                cell["in_window"] = _inside(cell["freq_khz"], win)
             if hr["weak"]:
                 weak_hours.append(h)
         ln["gap_utc_hours"] = sorted(gap_hours[ln["id"]])
+        ln["gap_utc_text"] = format_hours(ln["gap_utc_hours"]) if ln["gap_utc_hours"] else "none"
+        ln["gap_local_by_period"] = _local_by_period(ln["gap_utc_hours"], labels) if ln["gap_utc_hours"] else []
         ln["weak_utc_hours"] = weak_hours
 
 
@@ -510,6 +546,7 @@ def add_briefing(data: dict, plan: Plan, setup, pred, gaps, out: Collector) -> N
     ch_index = {c.id: i for i, c in enumerate(plan.channels)}
     _gap_links_by_hour(data, gaps, [ln["id"] for ln in data["links"]], labels)
     _net_hours(data, labels, plan.net.fallback)
+    _net_grid(data, plan, pred)
     _link_hours(data, pred.good_days, ch_index, labels)
     for st, s in zip(data["stations"], plan.stations):
         st["brief"] = _station_brief(plan, setup, pred, data, s, labels, ch_index, out)

@@ -47,7 +47,9 @@ CHANNEL_CELL = _obj({
     "skip": {"type": "boolean"},
     "allowed": {"type": "boolean"},
     "good_days_pct": PCT,
-}, required=["channel", "freq_khz", "snr_db", "margin_db", "good_days", "via", "good_days_pct"])
+    "in_window": BOOL,
+}, required=["channel", "freq_khz", "snr_db", "margin_db", "good_days", "via", "good_days_pct", "in_window"])
+WINDOW = {"anyOf": [{"type": "null"}, _arr(NUM, 2)]}
 
 LINK_HOUR = _obj({
     "utc_hour": UTC_HOUR,
@@ -63,6 +65,7 @@ LINK_HOUR = _obj({
     "second_good_days_pct": PCT_OR_NULL,
     "weak": BOOL,
     "gap": BOOL,
+    "window_mhz": WINDOW,
 })
 
 LINK = _obj({
@@ -72,6 +75,8 @@ LINK = _obj({
     "distance_km": NUM,
     "hours": _arr(LINK_HOUR, 24),
     "gap_utc_hours": _arr(UTC_HOUR),
+    "gap_utc_text": STR,
+    "gap_local_by_period": _arr(STR),
     "weak_utc_hours": _arr(UTC_HOUR),
 })
 
@@ -98,6 +103,8 @@ NET_HOUR = _obj({
     "second_good_days_pct": PCT_OR_NULL,
     "weak": BOOL,
     "fallback": FALLBACK,
+    "window_mhz": WINDOW,
+    "channels": _arr(_obj({"channel": STR, "good_days_pct": PCT_OR_NULL, "allowed": BOOL, "in_window": BOOL})),
 })
 
 STATION_HOUR = _obj({
@@ -141,6 +148,7 @@ GAP = _obj({
     "window_mhz": {"anyOf": [{"type": "null"}, _arr(NUM, 2)]},
     "links_by_hour": _arr(_arr(STR)),
     "local_by_period": _arr(STR),
+    "utc_text": STR,
 })
 
 ANTENNA = _obj({
@@ -222,7 +230,7 @@ PLAN_JSON = {
         "gaps": _arr(GAP),
         "scan_lists": _arr(SCAN_LIST),
         "antennas": _arr(ANTENNA),
-        "safety": _obj({"cautions": _arr(_obj({"topic": STR, "title": STR, "text": STR})), "deferral": STR,
+        "safety": _obj({"cautions": _arr(_obj({"topic": STR, "title": STR, "text": STR}, required=["topic", "text"])), "deferral": STR,
                         "short": {"type": "array", "items": STR, "minItems": 3, "maxItems": 5}, "short_pointer": STR}),
     }, required=["planpack", "net", "revision", "assumptions", "stations", "channels", "links", "net_schedule",
                  "gaps", "scan_lists", "antennas"]),
