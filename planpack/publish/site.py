@@ -23,6 +23,7 @@ import sys
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from planpack.labels import CUT_LABEL
 from planpack.publish import charts
 
 def _templates_dir() -> Path:
@@ -43,22 +44,6 @@ KIND_LABEL = {
     "dipole-reflector": "Dipole over a reflector wire",
     "folded-terminated": "Folded terminated dipole (broadband)",
     "whip": "Vertical whip",
-}
-CUT_LABEL = {
-    "total_m": "Radiator, tip to tip",
-    "leg_m": "Each leg, feed point to tip",
-    "leg_cut_with_extra_m": "Each leg as cut, with extra for the loops",
-    "total_cut_with_extra_m": "Radiator as cut, with extra for the loops",
-    "reflector_m": "Reflector wire",
-    "reflector_cut_with_extra_m": "Reflector as cut, with extra for the loops",
-    "reflector_below_m": "Reflector below the radiator",
-    "reflector_height_m": "Reflector above ground",
-    "end_height_m": "Leg ends above ground",
-    "min_end_height_m": "Lowest allowed end height",
-    "spacing_m": "Spacing of the two wires",
-    "end_allowance_m": "Extra at each end for loops and insulators",
-    "rule_of_thumb_total_m": "Rule-of-thumb total, for comparison",
-    "rule_of_thumb_leg_m": "Rule-of-thumb leg, for comparison",
 }
 
 
