@@ -245,6 +245,30 @@ def _gap_links_by_hour(data: dict, gaps, link_ids: list[str], labels: list[list[
                                   for h in entry["utc_hours"]]
         entry["local_by_period"] = _local_by_period(entry["utc_hours"], labels)
         entry["utc_text"] = format_hours(entry["utc_hours"])
+        entry["short"] = _gap_short(data, entry, labels)
+
+
+def _gap_short(data: dict, entry: dict, labels: list[list[str]]) -> str:
+    """A gap in the words of a card: its local hours, who cannot be reached (by ALE address), what to do."""
+    stations = {s["id"]: s for s in data["stations"]}
+    control = data["net"].get("control")
+    links = {ln["id"]: ln for ln in data["links"]}
+    who = []
+    for lid in entry["links"]:
+        a, b = links[lid]["from"], links[lid]["to"]
+        ends = [x for x in (a, b) if x != control]
+        text = "–".join(stations[x]["address"] for x in (ends if len(ends) == 1 else (a, b)))
+        if text not in who:
+            who.append(text)
+    everyone = len(entry["links"]) == len(data["links"]) > 2
+    if everyone:
+        reach = "any station" if control is None else "any member"
+    else:
+        reach = ", ".join(who[:-1]) + (" or " if len(who) > 1 else "") + who[-1]
+    advice = data["net"].get("fallback") or (
+        "expect to repeat calls" if everyone else "relay through a station that hears them or expect to repeat calls")
+    return (f"{_local_text(entry['utc_hours'], data['net'], labels)}: no channel reaches {reach} on enough days; "
+            f"{advice.rstrip('.')}")
 
 
 def _link_hours(data: dict, good: np.ndarray, ch_index: dict[str, int], labels) -> None:
@@ -553,6 +577,10 @@ def add_briefing(data: dict, plan: Plan, setup, pred, gaps, out: Collector) -> N
     for a in data["antennas"]:
         for c in a.get("channels", []):
             c.setdefault("swr_text", swr_text(c["swr"]))
+        cut = a.get("cut") or {}
+        for key, value in list(cut.items()):  # every length in feet and inches too, in one place
+            if key.endswith("_m") and isinstance(value, (int, float)) and not isinstance(value, bool):
+                cut.setdefault(key[:-2] + "_ft_in", feet_inches(float(value)))
 
 
 def swr_text(swr: float | None) -> str:

@@ -149,6 +149,7 @@ GAP = _obj({
     "links_by_hour": _arr(_arr(STR)),
     "local_by_period": _arr(STR),
     "utc_text": STR,
+    "short": STR,
 })
 
 ANTENNA = _obj({

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import datetime as dt
 import glob
-import math
+import re
 import os
 import shutil
 import subprocess
@@ -300,3 +300,26 @@ def test_demo_weak_hours_read_as_the_issue_asks(demos):
     assert any("works on about 1 day in" in t and "expect to repeat calls" in t for t in texts)
     assert d["revision"]["label"]
     assert d["net"]["utc_offset_label"] == "UTC+1" and len(d["net"]["periods"]) == 1
+
+
+def test_gap_in_a_cards_words(gappy, demos):
+    for d in all_data(gappy, demos):
+        addresses = {s["id"]: s["address"] for s in d["stations"]}
+        for g in d["gaps"]:
+            assert g["short"].startswith(g["local_by_period"][0] if len(d["net"]["periods"]) == 1 else g["utc_text"])
+            assert "--" not in g["short"]  # addresses, not link ids
+            if "any member" not in g["short"]:
+                members = {x for lid in g["links"] for x in lid.split("--") if x != d["net"]["control"]}
+                assert all(addresses[m] in g["short"] for m in members)
+    assert "call control by land line" in gappy[1].data["gaps"][0]["short"]
+
+
+def test_every_cut_length_also_in_feet_and_inches(gappy, demos):
+    for d in all_data(gappy, demos):
+        for a in d["antennas"]:
+            cut = a.get("cut") or {}
+            for key, value in cut.items():
+                if key.endswith("_m") and isinstance(value, (int, float)):
+                    ft = cut[key[:-2] + "_ft_in"]
+                    feet, inches = re.match(r"(\d+) ft (\d+)", ft).groups()
+                    assert (int(feet) * 12 + int(inches)) * 0.0254 == pytest.approx(value, abs=0.0254)

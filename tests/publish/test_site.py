@@ -200,6 +200,7 @@ def test_same_input_same_bytes_in_another_process():
 def test_source_date_epoch_sets_the_shown_date(monkeypatch):
     monkeypatch.setenv("SOURCE_DATE_EPOCH", "1800000000")  # 2027-01-15 UTC
     page = site.render_site([synthetic_data()])["test-net/index.html"].decode()
+    assert "Issue c-1a2b3c4d5e6f, undated" in page  # the compiled label is printed as it is: never re-dated here
     d = synthetic_data()
     del d["revision"]["label"]  # an older plan.json: the id and the date
     assert "c-1a2b3c4d5e6f (content hash), 2027-01-15" in site.render_site([d])["test-net/index.html"].decode()
