@@ -328,7 +328,7 @@ def _scan_list(st: dict, station_ids: list[str], ch_ids: list[str]) -> dict:
 
 
 def _swr_text(swr: float) -> str:
-    return f"{swr:.1f}:1" if swr < 10 else f"{swr:.0f}:1"
+    return briefing.swr_text(swr)  # the words the site and the cards print
 
 
 def _antenna_warnings(plan: Plan, setup: StationAntennas, pred: LinkPredictions, out: Collector) -> None:
