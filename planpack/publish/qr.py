@@ -6,6 +6,8 @@ the four-module quiet zone the QR standard (ISO/IEC 18004) asks for.
 
 from __future__ import annotations
 
+import functools
+
 import qrcode
 import qrcode.constants
 
@@ -73,12 +75,13 @@ def payload(data: dict, station: dict | None) -> str:
     return offline_text(data, station)
 
 
-def matrix(text: str) -> list[list[bool]]:
-    """The QR modules (True = dark), quiet zone included."""
+@functools.lru_cache(maxsize=64)
+def matrix(text: str) -> tuple[tuple[bool, ...], ...]:
+    """The QR modules (True = dark), quiet zone included; made once per text (choosing the mask is slow)."""
     code = qrcode.QRCode(error_correction=qrcode.constants.ERROR_CORRECT_M, border=QUIET_MODULES, box_size=1)
     code.add_data(text.encode("utf-8"))
     code.make(fit=True)
-    return code.get_matrix()
+    return tuple(tuple(row) for row in code.get_matrix())
 
 
 def draw(canvas, text: str, x: float, y: float, size: float) -> None:
