@@ -891,6 +891,11 @@ def _station_page(net: _Net, s: dict, scans: dict[str, "ScanRow"]) -> StationPag
     facts = [KeyValue("role", s["role"]), KeyValue("self address", s["address"]),
              KeyValue("position", f"{s['lat_deg']:.4f}, {s['lon_deg']:.4f} ({s['grid']})"),
              KeyValue("power", f"{s['power_w']:g} W"), KeyValue("noise at the receiver", str(s.get("noise", "–")))]
+    sun = s.get("sun") or {}
+    if sun.get("sunrise_local") or sun.get("sunset_local"):
+        facts.append(KeyValue(f"sun up / down on {sun.get('date')}",
+                              f"{sun.get('sunrise_local') or 'none'} / {sun.get('sunset_local') or 'none'} local "
+                              f"({sun.get('sunrise_utc') or 'none'} / {sun.get('sunset_utc') or 'none'} UTC)"))
     tc = b.get("to_control")
     if tc:
         facts.append(KeyValue("to control", f"{tc['bearing_deg']:.0f}° ({tc['compass']}), {tc['distance_km']:.1f} km to "
