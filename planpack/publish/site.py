@@ -804,6 +804,14 @@ def _period_headers(n: dict) -> tuple[str, ...]:
     return tuple(heads)
 
 
+def _offset_text(n: dict) -> str:
+    """'UTC+1', or 'UTC / UTC+1' when the clocks change in the period."""
+    periods = n.get("periods") or []
+    if len(periods) > 1:
+        return " / ".join(p["label"] for p in periods)
+    return str(n.get("utc_offset_label") or "")
+
+
 def _pct_text(p: int | None) -> str:
     return "–" if p is None else f"{p} %"
 
@@ -865,7 +873,7 @@ def _schedule(net: _Net) -> SchedulePage:
     hours = d["net_schedule"]["hours"]
     return SchedulePage(
         frame=_net_frame(net, "schedule.html", "Schedule"), timezone=d["net"]["timezone"],
-        offset=str(d["net"].get("utc_offset_label") or ""), clock=_clock_lines(d["net"]),
+        offset=_offset_text(d["net"]), clock=_clock_lines(d["net"]),
         changes=str(d["net_schedule"].get("changes_per_day", "–")), target=pct(net.target),
         weak=tuple(r["text"] for r in d["net_schedule"].get("weak_runs", [])),
         grid=_grid(net, "net-grid", "How often each channel works on the weakest link, hour by hour (% of days)", hours),
@@ -874,7 +882,7 @@ def _schedule(net: _Net) -> SchedulePage:
 
 def _link_page(net: _Net, ln: dict, row: LinkRow) -> LinkPage:
     return LinkPage(frame=_net_frame(net, row.href, f"Link {ln['id']}"), link=row, timezone=net.data["net"]["timezone"],
-                    offset=str(net.data["net"].get("utc_offset_label") or ""), target=pct(net.target),
+                    offset=_offset_text(net.data["net"]), target=pct(net.target),
                     grid=_grid(net, "link-grid", f"How often each channel works on link {ln['id']}, hour by hour (% of days)",
                                ln["hours"]),
                     gaps=_gap_rows(net, ln["id"]))
