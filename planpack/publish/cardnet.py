@@ -95,7 +95,7 @@ def net_tables(data: dict, look: Look) -> list[Flowable]:
     n = len(periods)
     hours = rows_in_local_order(data, data["net_schedule"]["hours"])
     pt = look.pt("table")
-    cellb, cell = look.style("cellb"), look.style("cell")
+    cell = look.style("cell")
     locals_ = [cd.local_times(h, n) for h in hours]
     firsts = [h.get("first") for h in hours]
     runs = _runs(firsts)
@@ -132,8 +132,7 @@ def net_tables(data: dict, look: Look) -> list[Flowable]:
 
     out: list[Flowable] = []
     for gi, g in enumerate(groups):
-        heads = local_heads(periods, cellb)
-        heads += [Paragraph("UTC", cellb), Paragraph("Net", cellb), Paragraph("Works", cellb)]
+        heads = local_heads(periods) + ["UTC", "Net", "Works"]
         heads += [Upright(link_head(data, link), pt) for link, _, _ in g]
         widths = fixed + [w for _, _, w in g]
         one_line = text_width([(f"{c} {fmt_khz(chans[c]['freq_khz'])} {chans[c]['mode']}", B, pt)
@@ -146,7 +145,7 @@ def net_tables(data: dict, look: Look) -> list[Flowable]:
         widths = [w + max(spare, 0) / len(widths) for w in widths]
         body = []
         for i, h in enumerate(hours):
-            body.append([Paragraph(escape(t), cellb) for t in locals_[i]]
+            body.append(list(locals_[i])
                         + [f"{h['utc_hour']:02d}", "", Meter(h["good_days_pct"], bool(h["weak"]), look, bar=False)]
                         + [cells[i] for _, cells, _ in g])
         cc = n + 1

@@ -22,9 +22,11 @@ full name, wrapped, never cut), the readable revision and the UTC offset.
 
 from __future__ import annotations
 
+import contextlib
 import io
 from dataclasses import dataclass, field
 
+from reportlab import rl_config
 from reportlab.lib import colors
 from reportlab.lib.utils import simpleSplit
 from reportlab.pdfbase.pdfmetrics import stringWidth
@@ -227,10 +229,11 @@ def _sides(front: list, back: list, fw: float, fh: float, what: str) -> list[lis
     return sides
 
 
-def _annex(data: dict, station: dict, look: Look, fw: float, fh: float) -> tuple[list[list], list[str]]:
+def _annex(data: dict, station: dict, look: Look, fw: float, fh: float,
+           shared: dict | None = None) -> tuple[list[list], list[str]]:
     """The annex card: its blocks in order of importance, each on the first of its two sides with room for it
     (first fit), then a note naming what was left to the site."""
-    blocks = annex_blocks(data, station, look)
+    blocks = annex_blocks(data, station, look, shared)
     heights = [b.flowable.wrap(fw, fh)[1] for b in blocks]
     sides: list[list[int]] = [[], []]  # block indexes
     used = [0.0, 0.0]
@@ -267,14 +270,18 @@ def _annex(data: dict, station: dict, look: Look, fw: float, fh: float) -> tuple
     return pages, [blocks[i].what for i in left]
 
 
-def _station_pages(data: dict, s: dict, look: Look, fw: float, fh: float) -> tuple[list[list], list[str], list[str]]:
-    """(pages, side labels, annex blocks left to the site) of one station (fresh flowables on every call)."""
+def _station_pages(data: dict, s: dict, look: Look, fw: float, fh: float,
+                   shared: dict) -> tuple[list[list], list[str], list[str]]:
+    """(pages, side labels, annex blocks left to the site) of one station (fresh flowables on every call but
+    the annex blocks every station shares)."""
     what = f"card of station {s['id']}"
-    annex, dropped = _annex(data, s, look, fw, fh)
+    annex, dropped = _annex(data, s, look, fw, fh, shared.setdefault((fw, fh), {}))
     back = station_back(data, s, look, cautions_on_annex="full cautions" not in dropped)
     # a long title or name: the title gives way (it is on the annex)
-    compact = len(_pour([("front", f) for f in station_front(data, s, look)], fw, fh, what)[0]) > 1
-    essentials = _sides(station_front(data, s, look, compact), back, fw, fh, what)
+    front = station_front(data, s, look)
+    if len(_pour([("front", f) for f in front], fw, fh, what)[0]) > 1:  # fresh flowables after a pour that split
+        front = station_front(data, s, look, compact=True)
+    essentials = _sides(front, back, fw, fh, what)
     labels = ["front", "back"] * (len(essentials) // 2) + ["annex front", "annex back"] * (len(annex) // 2)
     return essentials + annex, labels, dropped
 
@@ -305,7 +312,9 @@ def card_deck(data: dict, size: str | None = None) -> Deck:
         raise CardLayoutError(f"a station id '{NET_CARD}' or '{ALL_CARDS}' would overwrite the net card files; rename the station")
     look = Look(width=w - 2 * MARGIN, scale=card_scale(w, h))
     deck = Deck(size, w, h, look, [])
-    jobs = [(s["id"], s["name"], lambda fw, fh, s=s: _station_pages(data, s, look, fw, fh)) for s in data["stations"]]
+    shared: dict = {}  # annex blocks every station shares, by frame size
+    jobs = [(s["id"], s["name"], lambda fw, fh, s=s: _station_pages(data, s, look, fw, fh, shared))
+            for s in data["stations"]]
     if data.get("links"):
         jobs.append((NET_CARD, "Net card for control", lambda fw, fh: _net_pages(data, look, fw, fh)))
     for owner, title, lay in jobs:
@@ -487,6 +496,23 @@ def render_cards(data: dict, size: str | None = None, impose: str | None = None)
     """
     if impose is not None:
         cardlayout.sheet_size(impose)
+    with _binary_streams():
+        return _render(data, size, impose)
+
+
+@contextlib.contextmanager
+def _binary_streams():
+    """Compressed streams without the ASCII85 layer: a quarter smaller, and encoding them was a tenth of the
+    rendering time. reportlab reads this setting when it writes, so it is set around the cards and put back."""
+    old = rl_config.useA85
+    rl_config.useA85 = 0
+    try:
+        yield
+    finally:
+        rl_config.useA85 = old
+
+
+def _render(data: dict, size: str | None, impose: str | None) -> dict[str, bytes]:
     deck = card_deck(data, size)
     out: dict[str, bytes] = {}
     owners = [s["id"] for s in data["stations"]] + ([NET_CARD] if deck.of(NET_CARD) else [])

@@ -79,16 +79,16 @@ def _channel_markup(ch: dict | None, cid: str | None, two_lines: bool) -> str:
     return f"<b>{escape(cid)}</b>{sep}{fmt_khz(ch['freq_khz'])}\u00a0{escape(ch['mode'])}"
 
 
-def _fallback_markup(fb: cd.Fallback | None, weak: bool, mark: str) -> str:
-    """The second channel and how often it works; on a weak hour in bold after the mark, or the compile side's
-    instruction when there is no second channel."""
+def _fallback_text(fb: cd.Fallback | None, weak: bool, mark: str) -> str:
+    """The second channel and how often it works, after the mark on a weak hour ("none" there when there is no
+    channel to switch to: the instruction is under the table, it can be long). Plain text; weak rows are bold."""
     if fb is None:
         text = "–"
     elif fb.channel is None:
-        text = "none" if weak else "–"  # the instruction is under the table (it can be long)
+        text = "none" if weak else "–"
     else:
-        text = escape(fb.channel) + ("" if fb.pct is None else f"\u00a0{fb.pct}%")
-    return f"<b>{mark}\u00a0{text}</b>" if weak else text
+        text = fb.channel + ("" if fb.pct is None else f"\u00a0{fb.pct}%")
+    return f"{mark}\u00a0{text}" if weak else text
 
 
 def local_head_lines(period: cd.Period, n: int, first: bool = True) -> tuple[str, ...]:
@@ -102,9 +102,9 @@ def local_head_lines(period: cd.Period, n: int, first: bool = True) -> tuple[str
     return (period.label, "from", cd.short_date(period.start, False))
 
 
-def local_heads(periods: list[cd.Period], style) -> list[Paragraph]:
-    return [Paragraph("<br/>".join(escape(x) for x in local_head_lines(p, len(periods), i == 0)), style)
-            for i, p in enumerate(periods)]
+def local_heads(periods: list[cd.Period]) -> list[str]:
+    """The local columns' heads as table cells (a line a word; the table sets them in bold)."""
+    return ["\n".join(local_head_lines(p, len(periods), i == 0)) for i, p in enumerate(periods)]
 
 
 def rows_in_local_order(data: dict, hours: list[dict]) -> list[dict]:
@@ -132,12 +132,10 @@ def hour_table(data: dict, hours: list[dict], look: Look) -> Flowable:
     hours = rows_in_local_order(data, hours)
     mark = weak_mark()
     pt = look.pt("table")
-    cell, cellb = look.style("cell"), look.style("cellb")
+    cell = look.style("cell")
 
-    # Header: "Local" or, across a clock change, each period's offset and dates.
-    heads = local_heads(periods, cellb)
-    heads += [Paragraph("UTC", cellb), Paragraph("Channel", cellb), Paragraph("Works", cellb),
-              Paragraph("If not", cellb)]
+    # Header: "Local" over the offset or, across a clock change, each period's offset and dates.
+    heads = local_heads(periods) + ["UTC", "Channel", "Works", "If not"]
 
     locals_ = [cd.local_times(h, n) for h in hours]
     firsts = [h.get("first") for h in hours]
@@ -156,8 +154,8 @@ def hour_table(data: dict, hours: list[dict], look: Look) -> Flowable:
     one_line = [f"{c} {fmt_khz(chans[c]['freq_khz'])} {chans[c]['mode']}" if c in chans else (c or "no channel")
                 for c in firsts]
     w_chan_need = text_width([(t, B, pt) for t in one_line] + [("Channel", B, pt)])
-    fb_plain = [_fallback_markup(f, False, "") for f in fbs]
-    w_fb_need = text_width([(mark + " " + t, B, pt) for t in fb_plain if len(t) < 30] + [("If not", B, pt)])
+    fb_texts = [_fallback_text(f, w, mark) for f, w in zip(fbs, weak)]
+    w_fb_need = text_width([(t, B, pt) for t in fb_texts if len(t) < 30] + [("If not", B, pt)])
     rest = avail - sum(w_local) - w_utc - w_meter
     if rest < w_chan_need + w_fb_need and bar:  # narrow card: the bar goes first, the figure stays
         bar = False
@@ -173,17 +171,21 @@ def hour_table(data: dict, hours: list[dict], look: Look) -> Flowable:
         w_fb = max(rest - w_chan, 10.0)
     widths = w_local + [w_utc, w_chan, w_meter, w_fb]
 
+    # Plain strings where they fit (drawn far faster than paragraphs); a paragraph wraps what does not.
+    room = w_fb - 2 * CELL_PAD
     body = []
     for i, h in enumerate(hours):
-        body.append([Paragraph(escape(t), cellb) for t in locals_[i]]
-                    + [f"{h['utc_hour']:02d}", "", Meter(h["good_days_pct"], weak[i], look, bar),
-                       Paragraph(_fallback_markup(fbs[i], weak[i], mark), cell)])
+        fb = fb_texts[i]
+        if stringWidth(fb, B, pt) > room:
+            fb = Paragraph(f"<b>{escape(fb)}</b>" if weak[i] else escape(fb), cell)
+        body.append(list(locals_[i]) + [f"{h['utc_hour']:02d}", "", Meter(h["good_days_pct"], weak[i], look, bar), fb])
     cc = n + 1  # channel column
     for r0, r1 in runs:
         body[r0][cc] = Paragraph(_channel_markup(chans.get(firsts[r0]), firsts[r0], two_lines and r1 > r0), cell)
 
     lead = round(pt * 1.06, 2)
-    cmds = [("FONT", (0, 0), (-1, -1), R, pt, lead),
+    cmds = [("FONT", (0, 0), (-1, -1), R, pt, lead), ("FONT", (0, 0), (-1, 0), B, pt, lead),
+            ("FONT", (0, 1), (n - 1, -1), B, pt, lead),
             ("TOPPADDING", (0, 0), (-1, -1), 0.25), ("BOTTOMPADDING", (0, 0), (-1, -1), 0.45),
             ("LINEBELOW", (0, 0), (-1, 0), 1.0, colors.black),
             ("LINEBEFORE", (cc, 0), (cc, -1), 1.0, colors.black), ("LINEAFTER", (cc, 0), (cc, -1), 1.0, colors.black),
@@ -193,6 +195,8 @@ def hour_table(data: dict, hours: list[dict], look: Look) -> Flowable:
         if i % 2 == 1:  # zebra on the hour columns only: the channel block stays white
             cmds.append(("BACKGROUND", (0, i + 1), (n, i + 1), SHADE))
             cmds.append(("BACKGROUND", (cc + 1, i + 1), (-1, i + 1), SHADE))
+        if weak[i]:
+            cmds.append(("FONT", (cc + 2, i + 1), (cc + 2, i + 1), B, pt, lead))
     for r0, r1 in runs:
         if r1 > r0:
             cmds.append(("SPAN", (cc, r0 + 1), (cc, r1 + 1)))

@@ -36,7 +36,7 @@ from reportlab.platypus import Flowable, Spacer
 from planpack.publish import carddata as cd
 from planpack.publish import qr
 from planpack.publish.cardschedule import hour_table, legend
-from planpack.publish.cardstyle import B, R, SHADE, Keep, Look, fmt_khz, fmt_m, table, text_width, weak_mark
+from planpack.publish.cardstyle import B, CELL_PAD, R, SHADE, Keep, Look, fmt_khz, fmt_m, table, text_width, weak_mark
 from planpack.publish.cardtext import markdown_blocks
 
 
@@ -258,7 +258,8 @@ def cut_table(cut: dict, kind: str, look: Look, keys: tuple[str, ...] | None = N
     if w0 + w1 + w2 > look.width:  # a very narrow card: the lengths stack under their label
         body = [[look.P(f"{escape(r[0])}: <b>{escape(r[1])}</b> {escape(r[2])}")] for r in rows]
         return table(body, [look.width], [], look)
-    body = [[look.T(r[0]), r[1], r[2]] for r in rows]
+    fits = w0 - 2 * CELL_PAD  # a label that fits is a plain string (drawn far faster than a paragraph)
+    body = [[r[0] if look.width_of(r[0]) <= fits else look.T(r[0]), r[1], r[2]] for r in rows]
     cmds = [("FONT", (1, 0), (1, -1), B, pt), ("ALIGN", (1, 0), (2, -1), "RIGHT"),
             ("LINEABOVE", (0, 0), (-1, 0), 0.5, colors.black)]
     cmds += [("BACKGROUND", (0, i), (-1, i), SHADE) for i in range(1, len(body), 2)]
@@ -452,7 +453,7 @@ def channel_table(data: dict, station: dict, look: Look) -> list[Flowable]:
         body = [[look.T(x) for x in r] for r in rows]
     else:
         widths.append(rest)
-        body = [r[:4] + [look.T(r[4])] for r in rows]
+        body = [r[:4] + [r[4] if look.width_of(r[4]) <= rest - 2 * CELL_PAD else look.T(r[4])] for r in rows]
     cmds = [("FONT", (0, 0), (-1, 0), B, pt), ("FONT", (0, 1), (0, -1), B, pt), ("FONT", (3, 1), (3, -1), B, pt),
             ("LINEBELOW", (0, 0), (-1, 0), 0.8, colors.black), ("ALIGN", (1, 0), (1, -1), "RIGHT")]
     cmds += [("BACKGROUND", (0, i), (-1, i), SHADE) for i in range(2, len(body) + 1, 2)]
@@ -569,19 +570,29 @@ def full_cut_sheets(data: dict, station: dict, look: Look) -> list[Flowable]:
     return out
 
 
-def annex_blocks(data: dict, station: dict, look: Look) -> list[Optional]:
-    """The annex card's blocks in order of importance; the first that fit are printed, the rest left to the site."""
-    blocks = [("the net's title", title_line(data, look)),
-              ("standing instructions", instructions_block(data, look)),
+def annex_blocks(data: dict, station: dict, look: Look, shared: dict | None = None) -> list[Optional]:
+    """The annex card's blocks in order of importance; the first that fit are printed, the rest left to the site.
+
+    ``shared`` keeps the blocks that are the same on every station's annex (title, instructions, full
+    cautions) so that a deck builds and measures them once; a flowable may be drawn on many cards.
+    """
+    shared = {} if shared is None else shared
+    if not shared:
+        shared.update(title=Keep(title_line(data, look)), instructions=Keep(instructions_block(data, look)),
+                      cautions=Keep(safety_block(data, look)))
+    same = [("the net's title", shared["title"]), ("standing instructions", shared["instructions"]),
+            ("full cautions", shared["cautions"])]
+    blocks = [same[0], same[1],
               ("channel list", channel_table(data, station, look)),
-              ("full cautions", safety_block(data, look)),
+              same[2],
               ("weak hours in words", weak_hours_block(cd.station_weak_runs(data, station), look)),
               ("SWR table", swr_table(data, station, look)),
               ("station list", stations_block(data, station, look)),
               ("sunrise and sunset", sun_block(station, look)),
               ("full cut sheets", full_cut_sheets(data, station, look)),
               ("ground instructions", ground_detail(station, look))]
-    return [Optional(what, Keep(items)) for what, items in blocks if items]
+    return [Optional(what, items if isinstance(items, Keep) else Keep(items)) for what, items in blocks
+            if (items.items if isinstance(items, Keep) else items)]
 
 
 def left_out_note(what: list[str], look: Look) -> Flowable:
