@@ -143,14 +143,31 @@ def net_tables(data: dict, look: Look) -> list[Flowable]:
             widths[n + 1] = one_line
             spare -= one_line - w_chan
         widths = [w + max(spare, 0) / len(widths) for w in widths]
+        wrap_cells = False
+        over = sum(widths) - look.width
+        if over > 0:  # one station column wider than the card allows (long ids): the blocks and cells wrap
+            cut = min(over, max(widths[n + 1] - 24.0, 0.0))
+            widths[n + 1] -= cut
+            over -= cut
+            link_cols = range(n + 3, len(widths))
+            total = sum(widths[i] for i in link_cols)
+            if over > 0 and total > 0:
+                scale = max((total - over) / total, pt * 1.15 / min(widths[i] for i in link_cols))
+                for i in link_cols:
+                    widths[i] *= scale
+                wrap_cells = True
+            two_lines = True
         body = []
         for i, h in enumerate(hours):
             body.append(list(locals_[i])
                         + [f"{h['utc_hour']:02d}", "", Meter(h["good_days_pct"], bool(h["weak"]), look, bar=False)]
-                        + [cells[i] for _, cells, _ in g])
+                        + [Paragraph(f"<b>{escape(cells[i])}</b>", cell) if wrap_cells else cells[i]
+                           for _, cells, _ in g])
         cc = n + 1
+        runs = _runs(firsts, longest=6) if wrap_cells else _runs(firsts)
         for r0, r1 in runs:
-            body[r0][cc] = Paragraph(_channel_markup(chans.get(firsts[r0]), firsts[r0], two_lines and r1 > r0), cell)
+            body[r0][cc] = Paragraph(_channel_markup(chans.get(firsts[r0]), firsts[r0], two_lines and r1 > r0,
+                                                     mode=not wrap_cells), cell)  # squeezed: modes are on station cards
         lead = round(pt * 1.06, 2)
         cmds = [("FONT", (0, 0), (-1, -1), B, pt, lead), ("FONT", (n, 1), (n, -1), R, pt, lead),
                 ("TOPPADDING", (0, 0), (-1, -1), 0.25), ("BOTTOMPADDING", (0, 0), (-1, -1), 0.45),

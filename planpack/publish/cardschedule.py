@@ -70,13 +70,15 @@ class Meter(Flowable):
         c.setFillColor(colors.black)
 
 
-def _channel_markup(ch: dict | None, cid: str | None, two_lines: bool) -> str:
+def _channel_markup(ch: dict | None, cid: str | None, two_lines: bool, mode: bool = True) -> str:
+    """A channel block: id, frequency and mode (id over the rest when ``two_lines``; no mode when squeezed)."""
     if cid is None:
         return "<b>no channel</b>"
     if ch is None:
         return f"<b>{escape(cid)}</b>"
     sep = "<br/>" if two_lines else " "
-    return f"<b>{escape(cid)}</b>{sep}{fmt_khz(ch['freq_khz'])}\u00a0{escape(ch['mode'])}"
+    rest = f"\u00a0{escape(ch['mode'])}" if mode else ""
+    return f"<b>{escape(cid)}</b>{sep}{fmt_khz(ch['freq_khz'])}{rest}"
 
 
 def _fallback_text(fb: cd.Fallback | None, weak: bool, mark: str) -> str:
@@ -113,11 +115,12 @@ def rows_in_local_order(data: dict, hours: list[dict]) -> list[dict]:
     return sorted(hours, key=lambda h: (cd.local_times(h, n)[0], h["utc_hour"]))
 
 
-def _runs(values: list) -> list[tuple[int, int]]:
-    """(first row, last row) of each run of equal values."""
+def _runs(values: list, longest: int | None = None) -> list[tuple[int, int]]:
+    """(first row, last row) of each run of equal values; with ``longest``, no run spans more rows (a table can
+    only break between blocks, so a narrow card whose blocks wrap keeps them short enough to break)."""
     out: list[tuple[int, int]] = []
     for i, v in enumerate(values):
-        if out and values[out[-1][0]] == v:
+        if out and values[out[-1][0]] == v and (longest is None or i - out[-1][0] < longest):
             out[-1] = (out[-1][0], i)
         else:
             out.append((i, i))
@@ -180,6 +183,8 @@ def hour_table(data: dict, hours: list[dict], look: Look) -> Flowable:
             fb = Paragraph(f"<b>{escape(fb)}</b>" if weak[i] else escape(fb), cell)
         body.append(list(locals_[i]) + [f"{h['utc_hour']:02d}", "", Meter(h["good_days_pct"], weak[i], look, bar), fb])
     cc = n + 1  # channel column
+    if two_lines:
+        runs = _runs(firsts, longest=6)
     for r0, r1 in runs:
         body[r0][cc] = Paragraph(_channel_markup(chans.get(firsts[r0]), firsts[r0], two_lines and r1 > r0), cell)
 

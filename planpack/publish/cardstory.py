@@ -33,6 +33,7 @@ from xml.sax.saxutils import escape
 from reportlab.lib import colors
 from reportlab.platypus import Flowable, Spacer
 
+from planpack.labels import cut_label
 from planpack.publish import carddata as cd
 from planpack.publish import qr
 from planpack.publish.cardschedule import hour_table, legend
@@ -203,21 +204,10 @@ KIND_WORDS = {"dipole": "half-wave dipole", "inverted-v": "inverted-V dipole",
               "dipole-reflector": "dipole over a reflector wire",
               "folded-terminated": "terminated folded dipole (broadband)", "whip": "vertical whip"}
 
-CUT_LABELS = {  # key in antennas[].cut -> label on the card (the order of the full cut sheet)
-    "total_m": "Total span, tip to tip",
-    "leg_m": "Each leg, feed point to tip",
-    "total_cut_with_extra_m": "Wire to cut, total (with loops)",
-    "leg_cut_with_extra_m": "Wire to cut, each leg (with loops)",
-    "end_height_m": "Leg ends at height",
-    "min_end_height_m": "Leg ends no lower than",
-    "reflector_m": "Reflector wire",
-    "reflector_cut_with_extra_m": "Reflector to cut (with loops)",
-    "reflector_below_m": "Reflector below the dipole",
-    "reflector_height_m": "Reflector height",
-    "spacing_m": "Wire spacing",
-    "end_allowance_m": "Extra at each end for loops",
-    "rule_of_thumb_total_m": "Check: 468/f rule, total",
-}
+#: The order of the full cut sheet; the words are the ones pages and ``diff`` use (planpack.labels).
+CUT_ORDER = ("total_m", "leg_m", "total_cut_with_extra_m", "leg_cut_with_extra_m", "end_height_m", "min_end_height_m",
+             "reflector_m", "reflector_cut_with_extra_m", "reflector_below_m", "reflector_height_m", "spacing_m",
+             "end_allowance_m", "rule_of_thumb_total_m")
 TOTAL_LABEL = {"whip": "Whip length", "folded-terminated": "Length, end to end"}
 SKIP_CUT = {"rule_of_thumb_leg_m"}  # the rule's total is shown; its half adds nothing
 #: The lengths a team needs to cut and hang each kind (the rest is on the annex).
@@ -232,16 +222,16 @@ ESSENTIAL_CUT = {
 
 def _cut_rows(cut: dict, kind: str, keys: tuple[str, ...] | None = None) -> list[tuple[str, str, str]]:
     rows, seen = [], set(SKIP_CUT)
-    wanted = list(keys) if keys else list(CUT_LABELS)
+    wanted = list(keys) if keys else list(CUT_ORDER)
     for key in wanted:
         if _num(cut.get(key)):
-            label = TOTAL_LABEL.get(kind, CUT_LABELS[key]) if key == "total_m" else CUT_LABELS[key]
+            label = TOTAL_LABEL.get(kind, cut_label(key)) if key == "total_m" else cut_label(key)
             rows.append((label, fmt_m(cut[key]) + " m", feet_inches(cut, key)))
             seen.add(key)
     if keys is None:
         for key in sorted(cut):  # any further length the compiler reports is shown, not dropped
             if key not in seen and key.endswith("_m") and _num(cut[key]):
-                rows.append((key[:-2].replace("_", " ").capitalize(), fmt_m(cut[key]) + " m", feet_inches(cut, key)))
+                rows.append((cut_label(key), fmt_m(cut[key]) + " m", feet_inches(cut, key)))
     return rows
 
 

@@ -524,3 +524,67 @@ def test_same_bytes_in_a_fresh_process(files):
     """)
     res = subprocess.run([sys.executable, "-c", code, FIXTURE], capture_output=True, text=True, check=True)
     assert res.stdout.split("\n")[:-1] == [f"{k} {hashlib.sha256(files[k]).hexdigest()}" for k in sorted(files)]
+
+
+# ------------------------------------------------------------------ every schema-valid plan renders
+
+def _hostile(clock_change: bool) -> dict:
+    """The fixture at the schema's limits: 12-character channel ids, 40-character modes and antenna ids,
+    80-character names, 15-character addresses, a 120-character title, 200-character notes, long standing
+    instructions, a weak hour everywhere with a long instruction and no second channel."""
+    d = build_data(clock_change=clock_change, long_names=True, handling="H" * 20 + " MARKING" * 5)
+    ren = {c["id"]: f"CH{i:02d}-ABCDEFG"[:12] for i, c in enumerate(d["channels"])}
+    ants = {a["id"]: (a["id"] + "-" + "x" * 40)[:40] for a in d["antennas"]}
+
+    def walk(o):
+        if isinstance(o, dict):
+            for k, v in o.items():
+                if k in ("first", "second", "channel") and isinstance(v, str):
+                    o[k] = ren.get(v, v)
+                elif k == "antenna" and isinstance(v, str):
+                    o[k] = ants.get(v, v)
+                elif k == "channels" and isinstance(v, list) and v and isinstance(v[0], str):
+                    o[k] = [ren.get(x, x) for x in v]
+                else:
+                    walk(v)
+        elif isinstance(o, list):
+            for x in o:
+                walk(x)
+    for c in d["channels"]:
+        c["id"], c["mode"], c["note"] = ren[c["id"]], "m" * 40, ("note " * 40)[:200]
+    for key in ("stations", "links", "net_schedule", "antennas", "scan_lists", "gaps"):
+        walk(d[key])
+    for a in d["antennas"]:
+        a["id"] = ants[a["id"]]
+    for s in d["stations"]:
+        s["name"] = ("Very long station name " * 4)[:80]
+        s["address"] = (s["address"] * 3)[:15]
+        s["antennas"] = [ants[x] for x in s["antennas"]]
+    d["net"]["instructions_md"] = "- a standing instruction that goes on and on\n" * 400
+    d["net"]["title"] = "T" * 120
+    for h in d["net_schedule"]["hours"] + [h for s in d["stations"] for h in s["brief"]["hours"]]:
+        h["weak"], h["second"], h["second_good_days_pct"] = True, None, None
+        h["fallback"] = {"channel": None, "good_days_pct": None,
+                         "text": "no second channel: " + "relay via control " * 8}
+    return d
+
+
+@pytest.mark.parametrize("clock_change", [False, True])
+@pytest.mark.parametrize("size", ["3.5x5in", "3x5in"])
+def test_a_plan_at_the_schemas_limits_still_renders_whole(clock_change, size):
+    """No layout failure, nothing under 7 pt, nothing off the card, every hour and channel printed."""
+    d = _hostile(clock_change)
+    jsonschema.validate(d, output_schema())
+    out = render_cards(d, size=size)
+    w, h = SIZES_PT[size]
+    for name, pdf in out.items():
+        with open_pdf(pdf) as doc:
+            for page in doc.pages:
+                for c in page.chars:
+                    assert type_size(c) >= MIN_PT - 1e-6, name
+                    assert -0.5 <= c["x0"] and c["x1"] <= w + 0.5 and -0.5 <= c["top"] and c["bottom"] <= h + 0.5
+    text = " ".join(page_texts(out["ridge.pdf"]))
+    for u in range(24):
+        assert re.search(rf"\b{u:02d}\b", text)
+    assert all(c["id"] in text for c in d["channels"])
+    assert "relay via control" in text  # the weak hours' instruction
