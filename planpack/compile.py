@@ -15,7 +15,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from planpack import __version__, localtime, safety, schedule
+from planpack import __version__, briefing, localtime, safety, schedule
 from planpack.ionosphere import atmospheric, noise
 from planpack.plan.diagnostics import Collector, Diagnostic
 from planpack.plan.models import Plan
@@ -133,7 +133,7 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
     sd = scans.to_dict()
     data["scan_lists"] = [_scan_list(st, station_ids, ch_ids) for st in sd["stations"]]
     data["scan_list_rules"] = {"useful_good_days": sd["useful_good_days"], "formula": sd["formula"]}
-    for c in sd["unused_channels"]:
+    for c in briefing.reconcile_scan_lists(data, plan, sd["unused_channels"]):
         out.warning("wasted-channel", f"channels[{c}]",
                     f"channels[{c}]: channel {ch_ids[c]} ({plan.channels[c].khz:g} kHz) serves no link at any hour in "
                     f"the validity period; scanning it wastes call time", _At(*plan.where(f"channels[{c}]")))
@@ -141,6 +141,7 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
     data["antennas"] = setup.to_dicts(plan, ch_ids)
     _antenna_warnings(plan, setup, pred, out)
     _noise_warnings(plan, labels, out)
+    briefing.add_briefing(data, plan, setup, pred, gaps, out)
     data["diagnostics"] = [d.to_dict() for d in out.sorted()]
     return CompiledPlan(data, out.sorted(), pred)
 
@@ -166,7 +167,8 @@ def _skeleton(plan: Plan, labels: list[str], allowed: np.ndarray, offset: int) -
         "generator": {"name": "planpack", "version": __version__},
         "net": {
             "id": net.id, "title": net.title, "handling": net.handling, "timezone": net.timezone,
-            "utc_offset": _fmt_offset(offset),
+            "utc_offset": _fmt_offset(offset), **briefing.clock(net.timezone, net.valid_from, net.valid_to, offset),
+            "fallback": net.fallback,
             "valid": {"from": net.valid_from.isoformat(), "to": net.valid_to.isoformat()},
             "net_address": net.net_address, "base_url": net.base_url, "instructions_md": net.instructions,
             "target_good_days": net.target_good_days, "card_size": net.card_size,
@@ -342,7 +344,7 @@ def _scan_list(st: dict, station_ids: list[str], ch_ids: list[str]) -> dict:
 
 
 def _swr_text(swr: float) -> str:
-    return f"{swr:.1f}:1" if swr < 10 else f"{swr:.0f}:1"
+    return briefing.swr_text(swr)  # the words the site and the cards print
 
 
 #: Excess of the median lightning noise over the site's man-made noise that counts as ruling it [dB]:

@@ -77,3 +77,37 @@ def allowed_utc_hours(spans: tuple[tuple[int, int], ...] | None, offset_min: int
         idx = (first + np.arange(60)) % 1440
         out[h] = bool(minute[idx].all())
     return out
+
+
+def offset_periods(zone: str, start: dt.date, end: dt.date) -> list[tuple[dt.date, dt.date, int]]:
+    """The period cut at each change of the zone's UTC offset: [(first day, last day, offset [min])].
+
+    A change is dated by the first day whose noon has the new offset: the day
+    the clocks change (on that day the old offset holds only before the change).
+    """
+    out: list[list] = []
+    day = start
+    while day <= end:
+        off = utc_offset_min(zone, day)
+        if out and out[-1][2] == off:
+            out[-1][1] = day
+        else:
+            out.append([day, day, off])
+        day += dt.timedelta(days=1)
+    return [tuple(p) for p in out]
+
+
+def offset_label(minutes: int) -> str:
+    """A UTC offset as people write it: 'UTC', 'UTC+1', 'UTC-3:30', 'UTC+5:45'."""
+    if minutes == 0:
+        return "UTC"
+    sign = "+" if minutes > 0 else "-"
+    h, m = divmod(abs(minutes), 60)
+    return f"UTC{sign}{h}" + (f":{m:02d}" if m else "")
+
+
+def iso_offset(minutes: int) -> str:
+    """A UTC offset as ISO 8601 writes it: '+01:00', '-03:30'."""
+    sign = "+" if minutes >= 0 else "-"
+    h, m = divmod(abs(minutes), 60)
+    return f"{sign}{h:02d}:{m:02d}"

@@ -17,6 +17,12 @@ STR_OR_NULL = {"type": ["string", "null"]}
 HHMM = {"type": "string", "pattern": "^[0-2][0-9]:[0-5][0-9]$"}
 FRACTION = {"type": "number", "minimum": 0, "maximum": 1}
 UTC_HOUR = {"type": "integer", "minimum": 0, "maximum": 23}
+PCT = {"type": "integer", "minimum": 0, "maximum": 100}
+PCT_OR_NULL = {"anyOf": [PCT, {"type": "null"}]}
+DATE = {"type": "string", "pattern": "^[0-9]{4}-[0-9]{2}-[0-9]{2}$"}
+DATE_OR_NULL = {"anyOf": [DATE, {"type": "null"}]}
+OFFSET = {"type": "string", "pattern": "^[+-][0-9]{2}:[0-9]{2}$"}
+BOOL = {"type": "boolean"}
 
 
 def _obj(props: dict, required: list[str] | None = None, extra: bool = True) -> dict:
@@ -40,7 +46,10 @@ CHANNEL_CELL = _obj({
     "via": {"enum": ["ground", "E", "F2", None]},
     "skip": {"type": "boolean"},
     "allowed": {"type": "boolean"},
-}, required=["channel", "freq_khz", "snr_db", "margin_db", "good_days", "via"])
+    "good_days_pct": PCT,
+    "in_window": BOOL,
+}, required=["channel", "freq_khz", "snr_db", "margin_db", "good_days", "via", "good_days_pct", "in_window"])
+WINDOW = {"anyOf": [{"type": "null"}, _arr(NUM, 2)]}
 
 LINK_HOUR = _obj({
     "utc_hour": UTC_HOUR,
@@ -51,7 +60,13 @@ LINK_HOUR = _obj({
     "first": STR_OR_NULL,
     "second": STR_OR_NULL,
     "channels": {"type": "array", "items": CHANNEL_CELL},
-}, required=["utc_hour", "local_time", "muf_mhz", "owf_mhz", "luf_mhz", "first", "second", "channels"])
+    "local_times": _arr(HHMM),
+    "first_good_days_pct": PCT_OR_NULL,
+    "second_good_days_pct": PCT_OR_NULL,
+    "weak": BOOL,
+    "gap": BOOL,
+    "window_mhz": WINDOW,
+})
 
 LINK = _obj({
     "id": STR,
@@ -59,7 +74,23 @@ LINK = _obj({
     "to": STR,
     "distance_km": NUM,
     "hours": _arr(LINK_HOUR, 24),
-}, required=["id", "from", "to", "distance_km", "hours"])
+    "gap_utc_hours": _arr(UTC_HOUR),
+    "gap_utc_text": STR,
+    "gap_local_by_period": _arr(STR),
+    "weak_utc_hours": _arr(UTC_HOUR),
+})
+
+FALLBACK = {"anyOf": [{"type": "null"}, _obj({"channel": STR_OR_NULL, "good_days_pct": PCT_OR_NULL, "text": STR})]}
+
+WEAK_RUN = _obj({
+    "utc_hours": _arr(UTC_HOUR),
+    "utc": STR,
+    "local": STR,
+    "local_by_period": _arr(STR),
+    "good_days_pct_min": PCT,
+    "good_days_pct_max": PCT,
+    "text": STR,
+})
 
 NET_HOUR = _obj({
     "utc_hour": UTC_HOUR,
@@ -67,14 +98,59 @@ NET_HOUR = _obj({
     "first": STR_OR_NULL,
     "second": STR_OR_NULL,
     "weakest_good_days": FRACTION,
-}, required=["utc_hour", "local_time", "first", "second", "weakest_good_days"])
+    "local_times": _arr(HHMM),
+    "good_days_pct": PCT_OR_NULL,
+    "second_good_days_pct": PCT_OR_NULL,
+    "weak": BOOL,
+    "fallback": FALLBACK,
+    "window_mhz": WINDOW,
+    "channels": _arr(_obj({"channel": STR, "good_days_pct": PCT_OR_NULL, "allowed": BOOL, "in_window": BOOL})),
+})
+
+STATION_HOUR = _obj({
+    "utc_hour": UTC_HOUR,
+    "first": STR_OR_NULL,
+    "second": STR_OR_NULL,
+    "local_times": _arr(HHMM),
+    "good_days_pct": PCT_OR_NULL,
+    "second_good_days_pct": PCT_OR_NULL,
+    "weak": BOOL,
+    "fallback": FALLBACK,
+})
+
+PLACE = _obj({"station": STR, "bearing_deg": NUM, "distance_km": NUM, "compass": STR})
+WHO = _obj({"station": STR, "name": STR, "address": STR})
+BRIEF = _obj({
+    "to_control": {"anyOf": [{"type": "null"}, PLACE]},
+    "far_stations": _arr(PLACE),
+    "hours": _arr(STATION_HOUR, 24),
+    "weak_runs": _arr(WEAK_RUN),
+    "antenna_by_channel": _arr(_obj({"channel": STR, "antenna": STR, "gain_dbi": NUM,
+                                     "gains_dbi": {"type": "object", "additionalProperties": NUM}, "why": STR})),
+    "wire_runs": _arr(_obj({"antenna": STR, "run_deg": NUM_OR_NULL, "run_compass": STR_OR_NULL, "rule": STR,
+                            "text": STR})),
+    "ground": _obj({"system": STR, "soil": STR, "instruction": STR, "text": STR,
+                    "counterpoise_m": NUM_OR_NULL, "counterpoise_ft_in": STR_OR_NULL,
+                    "radial_m": NUM_OR_NULL, "radial_ft_in": STR_OR_NULL,
+                    "radial_count": {"type": ["integer", "null"]}, "lowest_freq_khz": NUM, "basis": STR}),
+    "control": {"anyOf": [{"type": "null"}, WHO]},
+    "net_address": STR_OR_NULL,
+    "other_members": _arr(WHO),
+    "exposure": {"anyOf": [{"type": "null"}, _obj({
+        "general_public_m": NUM, "occupational_m": NUM, "antenna": STR, "clearance_m": NUM_OR_NULL,
+        "exceeds_clearance": BOOL, "text": STR})]},
+})
 
 GAP = _obj({
     "links": _arr(STR),
     "utc_hours": _arr(UTC_HOUR),
     "local_hours": _arr(HHMM),
     "window_mhz": {"anyOf": [{"type": "null"}, _arr(NUM, 2)]},
-}, required=["links", "utc_hours", "local_hours", "window_mhz"])
+    "links_by_hour": _arr(_arr(STR)),
+    "local_by_period": _arr(STR),
+    "utc_text": STR,
+    "short": STR,
+})
 
 ANTENNA = _obj({
     "id": STR,
@@ -87,7 +163,9 @@ ANTENNA = _obj({
     "channels": _arr(_obj({
         "channel": STR, "freq_khz": NUM, "impedance_ohm": _arr(NUM, 2), "swr": NUM,
         "swr_class": {"enum": ["fine", "tuner", "poor"]}, "mismatch_loss_db": NUM, "feedline_loss_db": NUM,
-    }, required=["channel", "freq_khz", "impedance_ohm", "swr", "swr_class", "mismatch_loss_db", "feedline_loss_db"])),
+        "swr_text": {"type": "string", "pattern": "^(> 50|[0-9]+(\\.[0-9])?):1$"},
+    }, required=["channel", "freq_khz", "impedance_ohm", "swr", "swr_class", "mismatch_loss_db", "feedline_loss_db",
+                 "swr_text"])),
     "pattern": _obj({"peak_gain_dbi": NUM, "zenith_gain_dbi": NUM, "fraction_above_60deg": FRACTION},
                     required=["peak_gain_dbi", "zenith_gain_dbi", "fraction_above_60deg"]),
     "height_wavelengths": NUM_OR_NULL,
@@ -100,10 +178,12 @@ STATION = _obj({
     "lat_deg": NUM, "lon_deg": NUM, "grid": STR, "power_w": NUM, "noise": STR,
     "antennas": _arr(STR), "ground": _obj({"soil": STR, "system": STR}),
     "scan_rate": NUM,
+    "brief": BRIEF,
     "sun": _obj({"date": STR, "sunrise_utc": {"anyOf": [HHMM, {"type": "null"}]}, "sunset_utc": {"anyOf": [HHMM, {"type": "null"}]},
                  "sunrise_local": {"anyOf": [HHMM, {"type": "null"}]}, "sunset_local": {"anyOf": [HHMM, {"type": "null"}]}},
                 required=["date", "sunrise_utc", "sunset_utc", "sunrise_local", "sunset_local"]),
-}, required=["id", "name", "address", "role", "lat_deg", "lon_deg", "grid", "power_w", "noise", "antennas", "ground", "sun"])
+}, required=["id", "name", "address", "role", "lat_deg", "lon_deg", "grid", "power_w", "noise", "antennas", "ground", "sun",
+             "brief"])
 
 CHANNEL = _obj({
     "id": STR, "freq_khz": NUM, "mode": STR, "note": STR_OR_NULL,
@@ -117,7 +197,9 @@ SCAN_LIST = _obj({
     "groups": _arr(_obj({"name": STR, "channels": _arr(STR), "scan_period_s": NUM, "call_time_s": NUM},
                         required=["name", "channels", "scan_period_s", "call_time_s"])),
     "wasted": _arr(STR),
-}, required=["station", "groups", "wasted"])
+    "added_for_schedule": _arr(STR),
+    "note": STR,
+}, required=["station", "groups", "wasted", "added_for_schedule"])
 
 PLAN_JSON = {
     "$schema": "https://json-schema.org/draft/2020-12/schema",
@@ -128,18 +210,31 @@ PLAN_JSON = {
         "net": _obj({
             "id": STR, "title": STR, "handling": STR_OR_NULL, "timezone": STR,
             "valid": _obj({"from": STR, "to": STR}),
-        }, required=["id", "title", "handling", "timezone", "valid"]),
-        "revision": _obj({"id": STR, "kind": {"enum": ["git", "content"]}}, required=["id", "kind"]),
+            "utc_offset": OFFSET,
+            "utc_offset_label": {"type": "string", "pattern": "^UTC([+-][0-9]{1,2}(:[0-5][0-9])?)?$"},
+            "periods": {"type": "array", "minItems": 1, "items": _obj({"from": DATE, "to": DATE, "utc_offset": OFFSET,
+                                                                         "label": STR})},
+            "clock_changes": _arr(_obj({"date": DATE, "from": OFFSET, "to": OFFSET})),
+            "fallback": STR_OR_NULL,
+            "target_good_days": FRACTION,
+        }, required=["id", "title", "handling", "timezone", "valid", "utc_offset", "utc_offset_label", "periods",
+                     "clock_changes", "target_good_days"]),
+        "revision": _obj({"id": STR, "kind": {"enum": ["git", "content"]}, "date": DATE_OR_NULL,
+                          "number": {"type": ["integer", "null"], "minimum": 1}, "issue_date": DATE_OR_NULL,
+                          "label": STR}),
         "assumptions": _obj({"months": _arr(STR), "solar": {"type": "object"}}, required=["months", "solar"]),
         "stations": _arr(STATION),
         "channels": _arr(CHANNEL),
         "links": _arr(LINK),
-        "net_schedule": _obj({"changes_per_day": {"type": "integer", "minimum": 0}, "hours": _arr(NET_HOUR, 24)},
-                             required=["changes_per_day", "hours"]),
+        "net_schedule": _obj({"changes_per_day": {"type": "integer", "minimum": 0}, "hours": _arr(NET_HOUR, 24),
+                              "weak_runs": _arr(WEAK_RUN)}),
         "gaps": _arr(GAP),
         "scan_lists": _arr(SCAN_LIST),
         "antennas": _arr(ANTENNA),
-    }),
+        "safety": _obj({"cautions": _arr(_obj({"topic": STR, "title": STR, "text": STR}, required=["topic", "text"])), "deferral": STR,
+                        "short": {"type": "array", "items": STR, "minItems": 3, "maxItems": 5}, "short_pointer": STR}),
+    }, required=["planpack", "net", "revision", "assumptions", "stations", "channels", "links", "net_schedule",
+                 "gaps", "scan_lists", "antennas"]),
 }
 
 

@@ -36,6 +36,16 @@ CAUTIONS = (
      "from the set."),
 )
 
+#: The short form a card carries (3-5 lines), with a pointer to the full cautions.
+SHORT = (
+    "Power lines: keep antenna, mast and guys at least the mast height plus 3 m from any overhead line.",
+    "RF: no one closer to the antenna than the distance on this card while transmitting; never touch it then.",
+    "Lightning: on thunder or static build-up stop, disconnect the feedline and ground it outside.",
+    "Ground the set to the station's ground with a short heavy lead; guy masts before letting go.",
+)
+SHORT_POINTER = ("Full cautions: the Safety page of the net's site. Local codes, the equipment manuals and licensed "
+                 "practice come first.")
+
 GROUNDING = {
     "rods": "Drive the ground stake at least 1 m into moist soil beside the set; bond the set's ground terminal to it "
             "with the shortest heavy lead (braid or 4 mm² or larger). Water the soil in dry weather.",
@@ -53,4 +63,6 @@ def cautions() -> dict:
     return {
         "cautions": [{"topic": t, "title": title, "text": text} for t, title, text in CAUTIONS],
         "deferral": DEFERRAL,
+        "short": list(SHORT),
+        "short_pointer": SHORT_POINTER,
     }

@@ -179,3 +179,15 @@ def test_antenna_output_contract(compiled):
     assert invv["cut"]["leg_m"] == pytest.approx(invv["cut"]["total_m"] / 2, rel=1e-3)
     # the 468/f ft rule of thumb (common practice, no source) within a few percent of the NEC trim
     assert invv["cut"]["rule_of_thumb_total_m"] == pytest.approx(468 / 3.4 * 0.3048, rel=1e-3)
+
+
+def test_check_without_cells_gives_the_same_warnings_and_briefing(compiled):
+    # `check` compiles without the per-channel cells; the warnings and the briefing must not depend on them
+    path = DEMOS[0]
+    lean = compile_plan(read_plan(path).plan, cells=False)
+    full = compiled[os.path.basename(path)]
+    assert [d.format() for d in lean.diagnostics] == [d.format() for d in full.diagnostics]
+    for a, b in zip(lean.data["stations"], full.data["stations"]):
+        assert a["brief"] == b["brief"]
+    assert lean.data["net_schedule"] == full.data["net_schedule"]
+    assert [ln["gap_utc_hours"] for ln in lean.data["links"]] == [ln["gap_utc_hours"] for ln in full.data["links"]]

@@ -65,6 +65,7 @@ CODES: dict[str, str] = {
     "bad-link": "a link that joins a station to itself, or twice",
     "unused-antenna": "an antenna that no station uses",
     "unknown-mode": "a channel mode that is neither built in nor declared",
+    "clock-change": "the UTC offset of the net's time zone changes inside the validity period",
     # analysis results reported by check (filled in by later passes)
     "channel-gap": "hours where no assigned channel serves a link",
     "swr-high": "an antenna's SWR above 3:1 on an assigned channel",
@@ -72,6 +73,7 @@ CODES: dict[str, str] = {
     "nvis-whip": "a whip used alone on an NVIS net",
     "wasted-channel": "a channel that serves no link at any hour",
     "atmospheric-noise": "lightning noise probably rules a receiving site at some hours",
+    "exposure-clearance": "an RF exposure distance larger than the clearance the plan gives for a station",
 }
 
 

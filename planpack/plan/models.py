@@ -42,6 +42,7 @@ class Station:
     antennas: tuple[str, ...]
     ground: Ground
     scan_rate: float  # [channels/s]
+    clearance_m: float | None = None  # how far people can be kept from the antennas [m], if the plan says
 
 
 @dataclass(frozen=True)
@@ -102,6 +103,7 @@ class Net:
     instructions: str | None
     target_good_days: float
     card_size: str
+    fallback: str | None = None  # what teams do when the hour's channel is weak and no second helps
 
 
 @dataclass(frozen=True)

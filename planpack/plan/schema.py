@@ -54,6 +54,9 @@ NET = Record(fields={
     "target_good_days": Field(Number(0.5, 0.99), required=False, default=0.9,
                               doc="fraction of days the weakest link must work for an hour to count as served"),
     "card_size": Field(Choice(CARD_SIZES), required=False, default="3.5x5in", doc="field card size"),
+    "fallback": Field(Text(max_len=200), required=False,
+                      doc="what a team does in a weak hour when the second channel does not help either "
+                          "(printed beside those hours), e.g. 'call control on the satellite phone'"),
 }, description="the net as a whole")
 
 STATION = Record(fields={
@@ -72,6 +75,9 @@ STATION = Record(fields={
                      doc="antenna id, or a list of ids the station may use"),
     "ground": Field(Record(fields={"soil": Field(Choice(SOILS)), "system": Field(Choice(GROUND_SYSTEMS))})),
     "scan_rate": Field(Number(0.5, 10, unit="channels/s"), required=False, default=2.0, doc="ALE scan rate of the set"),
+    "clearance_m": Field(Number(0, 1000, unit="m"), required=False,
+                         doc="how far people can be kept from this station's antennas while it transmits; check warns "
+                             "when the RF exposure distance for the general public is larger"),
 })
 
 CHANNEL = Record(fields={

@@ -13,6 +13,7 @@ import re
 import zoneinfo
 from itertools import combinations
 
+from planpack import localtime
 from planpack.plan import locator
 from planpack.plan.diagnostics import Collector
 from planpack.plan.models import Antenna, Channel, Feedline, Ground, Net, Plan, Position, Solar, Station
@@ -81,6 +82,8 @@ class Semantics:
             self.error("date-order", "net.valid", f"from {net['valid']['from']} is after to {net['valid']['to']}", "net.valid.from")
         elif (net["valid"]["to"] - net["valid"]["from"]).days > 366:
             self.error("date-order", "net.valid", "the period is longer than a year; make one plan per season", "net.valid.to")
+        else:
+            self.clock_changes(net)
         for index, value in net["solar"].items():
             if isinstance(value, list) and value[0] > value[1]:
                 self.error("solar-range", f"net.solar.{index}", f"the range [{value[0]:g}, {value[1]:g}] is backwards; write [low, high]")
@@ -90,6 +93,20 @@ class Semantics:
         if url is not None and not _HTTP_URL.fullmatch(url):
             self.error("bad-url", "net.base_url", f"expected the http:// or https:// address of the folder the site is published in "
                        f"(no spaces, quotes, angle brackets, backslashes, user@, ?query or #fragment), got '{url}'")
+
+    def clock_changes(self, net: dict) -> None:
+        """Warn when the UTC offset changes inside the validity period: local times differ either side."""
+        try:
+            parts = localtime.offset_periods(net["timezone"], net["valid"]["from"], net["valid"]["to"])
+        except (zoneinfo.ZoneInfoNotFoundError, ValueError, IsADirectoryError, OSError):
+            return  # reported as unknown-timezone
+        for (_, last, old), (first, _, new) in zip(parts, parts[1:]):
+            self.warning("clock-change", "net.valid",
+                         f"the UTC offset of {net['timezone']} changes on {first.isoformat()}, inside the validity "
+                         f"period: {localtime.offset_label(old)} until {last.isoformat()}, {localtime.offset_label(new)} "
+                         f"from {first.isoformat()}; the cards and pages give local times for each side of the change, "
+                         f"and UTC times stay the same (to avoid it, end the plan on {last.isoformat()} and start a "
+                         f"new one on {first.isoformat()})")
 
     def stations(self) -> None:
         stations = self.d["stations"]
@@ -231,7 +248,7 @@ def build(data: dict, source: str, sha256: str, positions: dict | None = None) -
         net_address=n.get("net_address"),
         links=n["links"] if isinstance(n["links"], str) else tuple((a, b) for a, b in n["links"]),
         base_url=n.get("base_url"), instructions=n.get("instructions"),
-        target_good_days=float(n["target_good_days"]), card_size=n["card_size"],
+        target_good_days=float(n["target_good_days"]), card_size=n["card_size"], fallback=n.get("fallback"),
     )
     stations = []
     for sid, st in data["stations"].items():
@@ -246,6 +263,7 @@ def build(data: dict, source: str, sha256: str, positions: dict | None = None) -
             noise=st["noise"], noise_margin_db=float(st["noise_margin_db"]),
             antennas=tuple(st["antenna"] if isinstance(st["antenna"], list) else [st["antenna"]]),
             ground=Ground(st["ground"]["soil"], st["ground"]["system"]), scan_rate=float(st["scan_rate"]),
+            clearance_m=_f(st.get("clearance_m")),
         ))
     channels = []
     for ch in data["channels"]:

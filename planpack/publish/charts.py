@@ -1,4 +1,4 @@
-"""Hand-built SVG charts for the site: map, frequency window, SWR, elevation pattern, hanging sketch.
+"""Hand-built SVG charts for the site: map, SWR, elevation pattern, hanging sketch.
 
 Every chart is a pure function of figures already in the compiled plan and
 returns the SVG document as text. The charts must read in black and white:
@@ -78,22 +78,6 @@ def _text(x: float, y: float, s: object, *, anchor: str = "start", size: int | N
     if halo:
         attrs += f' stroke="{PAPER}" stroke-width="3" stroke-linejoin="round" paint-order="stroke"'
     return f"<text {attrs}>{esc(s)}</text>"
-
-
-def _spread(wanted: list[tuple[float, int]], gap: float, low: float, high: float) -> dict[int, float]:
-    """Label positions near the wanted y values, at least gap apart, within [low, high]."""
-    order = sorted(wanted)
-    placed: list[list[float]] = []
-    for y, key in order:
-        y = min(max(y, low), high)
-        if placed and y - placed[-1][0] < gap:
-            y = placed[-1][0] + gap
-        placed.append([y, key])
-    overflow = placed[-1][0] - high if placed else 0
-    if overflow > 0:  # push the stack back up, keeping the spacing
-        for p in placed:
-            p[0] -= overflow
-    return {int(k): y for y, k in placed}
 
 
 # --------------------------------------------------------------------------- map
@@ -184,152 +168,13 @@ def station_map(stations: list[dict], links: list[dict], *, title: str, uid: str
 
 # --------------------------------------------------------------- frequency window
 
-def frequency_window(hours: list[dict], channels: list[dict], *, title: str, target_good_days: float,
-                     uid: str = "fw", width: int = 760, height: int = 400) -> str:
-    """Usable frequency window of one link across the day, with the assigned channels.
-
-    hours: the link's 24 hour records (utc_hour, local_time, muf_mhz, owf_mhz, luf_mhz|None,
-    first, channels: [{channel, good_days, allowed}]).
-    channels: the plan's channels (id, freq_khz, mode), drawn as horizontal lines.
-    target_good_days: fraction of days [0-1] from which a channel counts as working.
-    """
-    pad_l, pad_r, pad_t, pad_b = 48, 118, 18, 64
-    plot_w, plot_h = width - pad_l - pad_r, height - pad_t - pad_b
-    hours = sorted(hours, key=lambda h: h["utc_hour"])
-    n = max(len(hours), 1)
-    col = plot_w / n
-    top = max([h["muf_mhz"] for h in hours] + [c["freq_khz"] / 1000 for c in channels] + [1.0]) * 1.08
-    ystep = nice_step(top, 6)
-    ymax = math.ceil(top / ystep) * ystep
-
-    def x_of(i: float) -> float:
-        return pad_l + (i + 0.5) * col
-
-    def y_of(mhz: float) -> float:
-        return pad_t + plot_h - mhz / ymax * plot_h
-
-    gap_hours = [i for i, h in enumerate(hours) if h.get("first") is None]
-    works_desc = []
-    out = []
-    out.append(_hatch(f"{uid}-hatch"))
-    out.append(f'<rect x="{pad_l}" y="{pad_t}" width="{f1(plot_w)}" height="{plot_h}" fill="none" stroke="{FAINT}"/>')
-    for i in gap_hours:  # hours without any working channel: hatched columns
-        out.append(f'<rect x="{f1(pad_l + i * col)}" y="{pad_t}" width="{f1(col)}" height="{plot_h}" fill="url(#{uid}-hatch)" opacity="0.6"/>')
-    v = 0.0
-    while v <= ymax + 1e-9:
-        y = y_of(v)
-        out.append(f'<line x1="{pad_l}" y1="{f1(y)}" x2="{f1(pad_l + plot_w)}" y2="{f1(y)}" stroke="{FAINT}" stroke-width="0.6"/>')
-        out.append(_text(pad_l - 5, y + 4, f"{v:g}", anchor="end", size=10, fill=MUTED))
-        v += ystep
-    out.append(_text(12, pad_t + plot_h / 2, "MHz", anchor="middle", size=10, fill=MUTED))
-    for i, h in enumerate(hours):
-        if i % 2 == 0:
-            out.append(_text(x_of(i), pad_t + plot_h + 14, f"{h['utc_hour']:02d}", anchor="middle", size=10))
-            out.append(_text(x_of(i), pad_t + plot_h + 27, h["local_time"][:2], anchor="middle", size=10, fill=MUTED))
-    out.append(_text(pad_l - 5, pad_t + plot_h + 14, "UTC", anchor="end", size=10, weight="600"))
-    out.append(_text(pad_l - 5, pad_t + plot_h + 27, "local", anchor="end", size=10, fill=MUTED))
-    # channels: a thin line (dotted outside authorised hours), a thick bar where it works
-    ch_label_y = {}
-    for c in channels:
-        y = y_of(c["freq_khz"] / 1000)
-        cells = []
-        for h in hours:
-            cells.append(next((cc for cc in h.get("channels", []) if cc["channel"] == c["id"]), None))
-        for i, cell in enumerate(cells):
-            allowed = cell is None or cell.get("allowed", True)
-            dash = "" if allowed else ' stroke-dasharray="1 3"'
-            out.append(f'<line x1="{f1(pad_l + i * col)}" y1="{f1(y)}" x2="{f1(pad_l + (i + 1) * col)}" y2="{f1(y)}" stroke="{MUTED}" stroke-width="0.8"{dash}/>')
-        worked = [i for i, cell in enumerate(cells)
-                  if cell is not None and cell.get("allowed", True) and cell["good_days"] >= target_good_days]
-        most = [i for i, cell in enumerate(cells)
-                if cell is not None and cell.get("allowed", True) and 0.5 <= cell["good_days"] < target_good_days]
-        for run in _runs(most):  # works on most days, short of the target: a thinner broken bar
-            out.append(f'<line x1="{f1(pad_l + run[0] * col + 1)}" y1="{f1(y)}" x2="{f1(pad_l + (run[-1] + 1) * col - 1)}" y2="{f1(y)}" stroke="{ACCENT}" stroke-width="3" stroke-dasharray="5 2"/>')
-        for run in _runs(worked):
-            out.append(f'<line x1="{f1(pad_l + run[0] * col + 1)}" y1="{f1(y)}" x2="{f1(pad_l + (run[-1] + 1) * col - 1)}" y2="{f1(y)}" stroke="{ACCENT}" stroke-width="6" stroke-linecap="butt"/>')
-        for i, h in enumerate(hours):  # first choice of the hour: a diamond on its channel
-            if h.get("first") == c["id"]:
-                x = x_of(i)
-                out.append(f'<path d="M{f1(x)} {f1(y - 5)} L{f1(x + 4)} {f1(y)} L{f1(x)} {f1(y + 5)} L{f1(x - 4)} {f1(y)} Z" fill="{PAPER}" stroke="{INK}" stroke-width="1.3"/>')
-        works_desc.append(f"{c['id']} {c['freq_khz']:g} kHz works at UTC " + (_hour_text([hours[i]['utc_hour'] for i in worked]) or "no hour"))
-        ch_label_y[c["id"]] = y
-    placed = _spread([(y, i) for i, y in enumerate(ch_label_y.values())], 11, pad_t + 4, pad_t + plot_h)
-    for i, (cid, y) in enumerate(ch_label_y.items()):
-        ly = placed[i]
-        c = channels[i]
-        out.append(f'<line x1="{f1(pad_l + plot_w)}" y1="{f1(y)}" x2="{f1(pad_l + plot_w + 6)}" y2="{f1(ly)}" stroke="{MUTED}" stroke-width="0.6"/>')
-        out.append(_text(pad_l + plot_w + 9, ly + 4, f"{cid}  {c['freq_khz']:g} kHz", size=10))
-    # curves: MUF solid, OWF dashed, LUF dotted, each named at its left end
-    curves = [("MUF", "muf_mhz", "", 2.4), ("OWF", "owf_mhz", ' stroke-dasharray="7 4"', 2.0),
-              ("LUF", "luf_mhz", ' stroke-dasharray="2 3"', 2.2)]
-    starts = []
-    for name, key, dash, w in curves:
-        pts = [(x_of(i), y_of(h[key])) if h.get(key) is not None else None for i, h in enumerate(hours)]
-        for seg in _segments(pts):
-            d = " ".join(("M" if j == 0 else "L") + f"{f1(x)} {f1(y)}" for j, (x, y) in enumerate(seg))
-            out.append(f'<path d="{d}" fill="none" stroke="{INK}" stroke-width="{w}"{dash} stroke-linejoin="round"/>')
-        starts.append((name, pts))
-    peak = max(range(len(hours)), key=lambda i: hours[i]["muf_mhz"]) if hours else 0
-    for name, pts in starts:  # each curve named where the day's window is widest
-        p = pts[peak] or next((q for q in pts if q is not None), None)
-        if p is None:
-            continue
-        dy = -7 if name == "MUF" else 15
-        out.append(_text(p[0], p[1] + dy, name, anchor="middle", size=11, weight="700", halo=True))
-    key_y = height - 12
-    out.append(f'<line x1="{pad_l}" y1="{key_y - 4}" x2="{pad_l + 20}" y2="{key_y - 4}" stroke="{ACCENT}" stroke-width="6"/>')
-    out.append(_text(pad_l + 25, key_y, f"works ≥ {target_good_days:.0%} of days", size=10))
-    out.append(f'<line x1="{pad_l + 140}" y1="{key_y - 4}" x2="{pad_l + 160}" y2="{key_y - 4}" stroke="{ACCENT}" stroke-width="3" stroke-dasharray="5 2"/>')
-    out.append(_text(pad_l + 165, key_y, "most days", size=10))
-    out.append(f'<path d="M{pad_l + 232} {key_y - 9} L{pad_l + 236} {key_y - 4} L{pad_l + 232} {key_y + 1} L{pad_l + 228} {key_y - 4} Z" fill="{PAPER}" stroke="{INK}" stroke-width="1.3"/>')
-    out.append(_text(pad_l + 241, key_y, "first choice", size=10))
-    out.append(f'<line x1="{pad_l + 315}" y1="{key_y - 4}" x2="{pad_l + 335}" y2="{key_y - 4}" stroke="{MUTED}" stroke-width="0.8" stroke-dasharray="1 3"/>')
-    out.append(_text(pad_l + 340, key_y, "not authorised", size=10))
-    out.append(f'<rect x="{pad_l + 425}" y="{key_y - 10}" width="16" height="12" fill="url(#{uid}-hatch)"/>')
-    out.append(_text(pad_l + 446, key_y, "no channel", size=10))
-    desc = ("Chart of the usable frequency window across the day. Curves: MUF (solid), optimum working "
-            "frequency OWF (dashed), LUF (dotted). " + "; ".join(works_desc) + "."
-            + (f" Gap hours UTC {_hour_text([hours[i]['utc_hour'] for i in gap_hours])}." if gap_hours else ""))
-    return "\n".join(_head(width, height, title, desc, uid) + out + ["</svg>"]) + "\n"
-
-
-def _runs(idx: list[int]) -> list[list[int]]:
-    runs: list[list[int]] = []
-    for i in idx:
-        if runs and i == runs[-1][-1] + 1:
-            runs[-1].append(i)
-        else:
-            runs.append([i])
-    return runs
-
-
-def _segments(pts: list) -> list[list[tuple[float, float]]]:
-    segs, cur = [], []
-    for p in pts:
-        if p is None:
-            if cur:
-                segs.append(cur)
-            cur = []
-        else:
-            cur.append(p)
-    if cur:
-        segs.append(cur)
-    return segs
-
-
-def _hour_text(hours: list[int]) -> str:
-    parts = []
-    for run in _runs(sorted(hours)):
-        parts.append(f"{run[0]:02d}" if len(run) == 1 else f"{run[0]:02d}-{run[-1]:02d}")
-    return ", ".join(parts)
-
-
 # ------------------------------------------------------------------------- SWR
 
 def swr_chart(rows: list[dict], *, title: str, uid: str = "swr", width: int = 640, height: int = 300) -> str:
     """SWR of one antenna on each channel, channels in plan order along the bottom.
 
-    rows: dicts with channel, freq_khz [kHz], swr [ratio], swr_class (fine|tuner|poor).
+    rows: dicts with channel, freq_khz [kHz], swr [ratio], swr_text (as printed, "> 50:1" above 50:1),
+    swr_class (fine|tuner|poor).
     The marker's shape carries the class: filled circle fine, open triangle tuner, cross poor.
     """
     pad_l, pad_r, pad_t, pad_b = 44, 16, 16, 56
@@ -367,7 +212,7 @@ def swr_chart(rows: list[dict], *, title: str, uid: str = "swr", width: int = 64
             out.append(f'<path d="M{f1(x)} {f1(y - 6)} L{f1(x + 6)} {f1(y + 5)} L{f1(x - 6)} {f1(y + 5)} Z" fill="{PAPER}" stroke="{INK}" stroke-width="1.6"/>')
         else:
             out.append(f'<path d="M{f1(x - 5)} {f1(y - 5)} L{f1(x + 5)} {f1(y + 5)} M{f1(x + 5)} {f1(y - 5)} L{f1(x - 5)} {f1(y + 5)}" stroke="{INK}" stroke-width="2.4"/>')
-        shown = f"{r['swr']:.1f}" if r["swr"] < 100 else ">99"
+        shown = str(r.get("swr_text") or "").removesuffix(":1")
         above = "▲" if r["swr"] > ymax else ""
         out.append(_text(x, y - 9, above + shown, anchor="middle", size=10, halo=True))
     ky = height - 10
@@ -378,7 +223,7 @@ def swr_chart(rows: list[dict], *, title: str, uid: str = "swr", width: int = 64
     out.append(f'<path d="M{pad_l + 160} {ky - 9} L{pad_l + 170} {ky + 1} M{pad_l + 170} {ky - 9} L{pad_l + 160} {ky + 1}" stroke="{INK}" stroke-width="2.4"/>')
     out.append(_text(pad_l + 176, ky, "poor", size=10))
     out.append(_text(pad_l + plot_w, ky, "dashed lines: 2:1 and 3:1", anchor="end", size=10, fill=MUTED))
-    desc = "SWR on each channel: " + "; ".join(f"{r['channel']} {r['swr']:.1f}:1 ({r['swr_class']})" for r in rows) + "."
+    desc = "SWR on each channel: " + "; ".join(f"{r['channel']} {r.get('swr_text')} ({r['swr_class']})" for r in rows) + "."
     return "\n".join(_head(width, height, title, desc, uid) + out + ["</svg>"]) + "\n"
 
 

@@ -1,10 +1,13 @@
 """QR codes on the cards: what they carry, and drawing them as plain squares.
 
-The code is drawn as filled rectangles (no text, no font of any kind), with
-the four-module quiet zone the QR standard (ISO/IEC 18004) asks for.
+The code is drawn as a 1-bit image, one pixel a module (no text, no font of
+any kind), with the four-module quiet zone the QR standard (ISO/IEC 18004)
+asks for.
 """
 
 from __future__ import annotations
+
+import functools
 
 import qrcode
 import qrcode.constants
@@ -73,34 +76,35 @@ def payload(data: dict, station: dict | None) -> str:
     return offline_text(data, station)
 
 
-def matrix(text: str) -> list[list[bool]]:
-    """The QR modules (True = dark), quiet zone included."""
+@functools.lru_cache(maxsize=64)
+def matrix(text: str) -> tuple[tuple[bool, ...], ...]:
+    """The QR modules (True = dark), quiet zone included; made once per text (choosing the mask is slow)."""
     code = qrcode.QRCode(error_correction=qrcode.constants.ERROR_CORRECT_M, border=QUIET_MODULES, box_size=1)
     code.add_data(text.encode("utf-8"))
     code.make(fit=True)
-    return code.get_matrix()
+    return tuple(tuple(row) for row in code.get_matrix())
+
+
+@functools.lru_cache(maxsize=64)
+def image(text: str):
+    """The code as a 1-bit image, one pixel a module (quiet zone included); made once per text."""
+    from PIL import Image
+
+    m = matrix(text)
+    n = len(m)
+    img = Image.new("1", (n, n), 1)
+    img.putdata([0 if dark else 1 for row in m for dark in row])
+    from reportlab.lib.utils import ImageReader
+
+    return ImageReader(img)
 
 
 def draw(canvas, text: str, x: float, y: float, size: float) -> None:
     """Draw the QR code for text with its lower-left corner at (x, y), size x size points.
 
-    Each dark row run is one rectangle, so the drawing is small and has no seams.
+    One image with a pixel a module, scaled up: a viewer or printer that does
+    not smooth images (reportlab writes no /Interpolate, so none should) shows
+    square modules with sharp edges, and the page holds one small image
+    instead of hundreds of rectangles.
     """
-    m = matrix(text)
-    n = len(m)
-    cell = size / n
-    canvas.saveState()
-    canvas.setFillGray(1)
-    canvas.rect(x, y, size, size, stroke=0, fill=1)
-    canvas.setFillGray(0)
-    for r, row in enumerate(m):
-        c = 0
-        while c < n:
-            if row[c]:
-                start = c
-                while c < n and row[c]:
-                    c += 1
-                canvas.rect(x + start * cell, y + size - (r + 1) * cell, (c - start) * cell, cell, stroke=0, fill=1)
-            else:
-                c += 1
-    canvas.restoreState()
+    canvas.drawImage(image(text), x, y, size, size)

@@ -23,6 +23,7 @@ import sys
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from planpack.labels import CUT_LABEL
 from planpack.publish import charts
 
 def _templates_dir() -> Path:
@@ -43,22 +44,6 @@ KIND_LABEL = {
     "dipole-reflector": "Dipole over a reflector wire",
     "folded-terminated": "Folded terminated dipole (broadband)",
     "whip": "Vertical whip",
-}
-CUT_LABEL = {
-    "total_m": "Radiator, tip to tip",
-    "leg_m": "Each leg, feed point to tip",
-    "leg_cut_with_extra_m": "Each leg as cut, with extra for the loops",
-    "total_cut_with_extra_m": "Radiator as cut, with extra for the loops",
-    "reflector_m": "Reflector wire",
-    "reflector_cut_with_extra_m": "Reflector as cut, with extra for the loops",
-    "reflector_below_m": "Reflector below the radiator",
-    "reflector_height_m": "Reflector above ground",
-    "end_height_m": "Leg ends above ground",
-    "min_end_height_m": "Lowest allowed end height",
-    "spacing_m": "Spacing of the two wires",
-    "end_allowance_m": "Extra at each end for loops and insulators",
-    "rule_of_thumb_total_m": "Rule-of-thumb total, for comparison",
-    "rule_of_thumb_leg_m": "Rule-of-thumb leg, for comparison",
 }
 
 
@@ -217,6 +202,7 @@ class ChannelRef:
 class StationRow:
     id: str
     anchor: str
+    href: str
     name: str
     address: str
     role: str
@@ -250,7 +236,9 @@ class LinkRow:
     distance: str
     azimuth: str
     hops: str
-    gap_hours: str
+    gap_hours: str       # UTC, from links[].gap_utc_text
+    gap_local: str       # local, per period
+    has_gaps: bool
 
 
 @dataclass(frozen=True)
@@ -290,19 +278,49 @@ class OverviewPage:
     map_alt: str
     warnings: tuple[WarningRow, ...]
     cards: tuple[NavItem, ...]
+    weak: tuple[str, ...]
+    clock: tuple[str, ...]
 
 
 @dataclass(frozen=True)
 class HourRow:
-    local: str
+    """One hour of a schedule as a team reads it: the channel, how often it works, what to do if it fails."""
+    local: tuple[str, ...]   # one per clock period
     utc: str
     first: ChannelRef | None
     first_good: str
     second: ChannelRef | None
     second_good: str
-    note: str
-    gap: bool
-    short: bool  # a channel, but it works on fewer days than the plan's target
+    weak: bool               # below the plan's target (or no channel)
+    fallback: str
+    gap: bool                # no channel at all
+
+
+@dataclass(frozen=True)
+class GridCell:
+    text: str                # whole percent, or "–" when not authorised
+    mark: str                # "◆" the chosen channel, "◇" the second, "" else
+    classes: str
+    title: str
+
+
+@dataclass(frozen=True)
+class GridRow:
+    local: tuple[str, ...]
+    utc: str
+    weak: bool
+    cells: tuple[GridCell, ...]
+    window: str
+
+
+@dataclass(frozen=True)
+class Grid:
+    """A timetable: hours down, channels across (low to high), each cell how often that channel works."""
+    id: str
+    caption: str
+    channels: tuple[ChannelRef, ...]
+    periods: tuple[str, ...]
+    rows: tuple[GridRow, ...]
 
 
 @dataclass(frozen=True)
@@ -318,27 +336,16 @@ class GapRow:
 class SchedulePage:
     frame: Frame
     timezone: str
+    offset: str
+    clock: tuple[str, ...]
     changes: str
     target: str
+    weak: tuple[str, ...]
+    grid: Grid
+    periods: tuple[str, ...]
     rows: tuple[HourRow, ...]
     gaps: tuple[GapRow, ...]
     links: tuple[LinkRow, ...]
-
-
-@dataclass(frozen=True)
-class LinkHourRow:
-    local: str
-    utc: str
-    muf: str
-    owf: str
-    luf: str
-    first: ChannelRef | None
-    first_good: str
-    second: ChannelRef | None
-    second_good: str
-    working: str
-    gap: bool
-    short: bool
 
 
 @dataclass(frozen=True)
@@ -346,11 +353,41 @@ class LinkPage:
     frame: Frame
     link: LinkRow
     timezone: str
+    offset: str
     target: str
-    chart_src: str
-    chart_alt: str
-    rows: tuple[LinkHourRow, ...]
+    grid: Grid
     gaps: tuple[GapRow, ...]
+
+
+@dataclass(frozen=True)
+class AntennaChoice:
+    channel: ChannelRef
+    antenna: NavItem
+    why: str
+    used: bool
+
+
+@dataclass(frozen=True)
+class StationPage:
+    frame: Frame
+    id: str
+    name: str
+    address: str
+    role: str
+    facts: tuple[KeyValue, ...]
+    addresses: tuple[KeyValue, ...]
+    single_antenna: NavItem | None
+    antennas: tuple[AntennaChoice, ...]
+    rigging: tuple[KeyValue, ...]
+    ground: tuple[KeyValue, ...]
+    exposure: str
+    weak: tuple[str, ...]
+    periods: tuple[str, ...]
+    target: str
+    rows: tuple[HourRow, ...]
+    scan: "ScanRow | None"
+    links: tuple[LinkRow, ...]
+    cards: tuple[NavItem, ...]
 
 
 @dataclass(frozen=True)
@@ -370,6 +407,7 @@ class ScanRow:
     wasted: str
     split: bool
     note: str
+    station_id: str = ""
 
 
 @dataclass(frozen=True)
@@ -515,10 +553,11 @@ def _frame(net: _Net | None, *, page: str, title: str, heading: str, root: str, 
            revision: dict | None, generator: dict | None, base_url: str | None) -> Frame:
     nav: list[NavItem] = []
     if net is not None:
-        items = [("index.html", "Overview"), ("schedule.html", "Schedule"), ("scan.html", "Scan lists & instructions"),
-                 ("antennas.html", "Antennas"), ("safety.html", "Safety")]
+        items = [("index.html", "Overview"), ("schedule.html", "Schedule"), ("index.html#h-stations", "Stations"),
+                 ("scan.html", "Scan lists & instructions"), ("antennas.html", "Antennas"), ("safety.html", "Safety")]
         nav = [NavItem(href, label, href == page or (href == "antennas.html" and page.startswith("antenna-"))
-                       or (href == "schedule.html" and page.startswith("link-"))) for href, label in items]
+                       or (href == "schedule.html" and page.startswith("link-"))
+                       or (label == "Stations" and page.startswith("station-"))) for href, label in items]
     css = [root + "assets/site.css"]
     if marking:
         css.append("marking.css")
@@ -527,14 +566,17 @@ def _frame(net: _Net | None, *, page: str, title: str, heading: str, root: str, 
     if base is not None:
         canonical = base.rstrip("/") + "/" + ((net.dir + "/") if net else "") + ("" if page == "index.html" else page)
     rev = revision or {}
-    rev_text = ""
-    if rev.get("id"):
+    rev_text, date = "", None
+    if rev.get("label"):  # the compiled plan's readable revision: printed as it is, on every page
+        rev_text = str(rev["label"])
+    elif rev.get("id"):
         rev_text = f"{rev['id']} ({'git commit' if rev.get('kind') == 'git' else 'content hash'})"
+        date = shown_date(rev)
     gen = generator or {}
     return Frame(page_title=title, heading=heading, root=root, css=tuple(css),
                  marking=marking, nav=tuple(nav), canonical=canonical, revision=rev_text,
                  generator=f"{gen.get('name', 'planpack')} {gen.get('version', '')}".strip(),
-                 date=shown_date(rev), safety_href="safety.html" if net is not None else None)
+                 date=date, safety_href="safety.html" if net is not None else None)
 
 
 def _net_frame(net: _Net, page: str, title: str) -> Frame:
@@ -551,12 +593,16 @@ def _station_label(net: _Net, sid: str) -> str:
 
 def _link_rows(net: _Net) -> tuple[LinkRow, ...]:
     rows = []
+    periods = net.data["net"].get("periods") or []
     for ln in net.data["links"]:
-        gap_hours = [h["utc_hour"] for h in ln["hours"] if h.get("first") is None]
+        local = list(ln.get("gap_local_by_period") or [])
+        if len(local) > 1:
+            local = [f"{t} ({p['label']})" for t, p in zip(local, periods)]
         rows.append(LinkRow(id=ln["id"], href=f"link-{safe_name(ln['id'])}.html", a=_station_label(net, ln["from"]),
                             b=_station_label(net, ln["to"]), distance=num(ln["distance_km"], 0),
                             azimuth=num(ln.get("azimuth_deg"), 0), hops=str(ln.get("hops", "–")),
-                            gap_hours=hour_ranges(gap_hours) if gap_hours else "none"))
+                            gap_hours=str(ln.get("gap_utc_text", "none")), gap_local="; ".join(local),
+                            has_gaps=bool(ln.get("gap_utc_hours"))))
     return tuple(rows)
 
 
@@ -572,8 +618,13 @@ def _gap_rows(net: _Net, only_link: str | None = None) -> tuple[GapRow, ...]:
             links = (NavItem("schedule.html#h-links", f"all {len(every)} links"),)
         else:
             links = tuple(NavItem(f"link-{safe_name(lid)}.html", lid) for lid in g["links"])
+        local = list(g.get("local_by_period") or [])
+        periods = net.data["net"].get("periods") or []
+        if len(local) > 1:
+            local = [f"{t} ({p['label']})" for t, p in zip(local, periods)]
         rows.append(GapRow(links=links,
-                           local=local_ranges(g.get("local_hours", [])), utc=hour_ranges(g["utc_hours"]),
+                           local="; ".join(local) or local_ranges(g.get("local_hours", [])),
+                           utc=str(g.get("utc_text") or hour_ranges(g["utc_hours"])),
                            window=window, message=str(g.get("message") or "")))
     return tuple(rows)
 
@@ -670,7 +721,8 @@ def _overview(net: _Net) -> OverviewPage:
         if sun.get("sunrise_local") or sun.get("sunset_local"):
             sun_text = f"{sun.get('sunrise_local') or 'none'} / {sun.get('sunset_local') or 'none'}"
         stations.append(StationRow(
-            id=s["id"], anchor=f"st-{safe_name(s['id'])}", name=s["name"], address=s["address"], role=s["role"],
+            id=s["id"], anchor=f"st-{safe_name(s['id'])}", href=f"station-{safe_name(s['id'])}.html", name=s["name"],
+            address=s["address"], role=s["role"],
             lat=f"{s['lat_deg']:.4f}", lon=f"{s['lon_deg']:.4f}", grid=s["grid"], power=f"{s['power_w']:g} W",
             antennas=tuple(NavItem(f"antenna-{safe_name(a)}.html" if a in ants else "antennas.html", a)
                            for a in s["antennas"]),
@@ -690,7 +742,7 @@ def _overview(net: _Net) -> OverviewPage:
     if a.get("worst_case"):
         assumptions.append(KeyValue("schedule holds for", str(a["worst_case"])))
     methods = tuple(_kv(a.get("models") or {}))
-    facts = [KeyValue("valid", net.valid()), KeyValue("time zone", n["timezone"]),
+    facts = [KeyValue("valid", net.valid()), KeyValue("time zone", _zone_text(n)),
              KeyValue("net address", n.get("net_address") or "none"),
              KeyValue("control station", _station_label(net, n["control"]) if n.get("control") else "none"),
              KeyValue("links", {"hub": "every station to control", "all": "every pair of stations",
@@ -708,47 +760,187 @@ def _overview(net: _Net) -> OverviewPage:
         notes=tuple(str(x) for x in a.get("notes", [])), stations=tuple(stations), channels=channels,
         links=_link_rows(net), map_src="charts/map.svg",
         map_alt=f"Map of the {len(d['stations'])} stations and {len(d['links'])} links; the station table below gives every position.",
-        warnings=warnings, cards=tuple(NavItem(f"cards/{c}", c) for c in net.cards))
+        warnings=warnings, cards=tuple(NavItem(f"cards/{c}", c) for c in net.cards),
+        weak=tuple(r["text"] for r in d["net_schedule"].get("weak_runs", [])), clock=_clock_lines(n))
+
+
+MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
+
+
+def _day(iso: str) -> str:
+    """'2027-03-28' -> '28 Mar' (fixed English month names: the same bytes whatever the locale)."""
+    d = dt.date.fromisoformat(iso)
+    return f"{d.day} {MONTHS[d.month - 1]}"
+
+
+def _zone_text(n: dict) -> str:
+    label = n.get("utc_offset_label")
+    periods = n.get("periods") or []
+    if len(periods) > 1:
+        return f"{n['timezone']} ({' / '.join(p['label'] for p in periods)}: the clocks change in the period)"
+    return f"{n['timezone']} ({label})" if label else n["timezone"]
+
+
+def _clock_lines(n: dict) -> tuple[str, ...]:
+    """The clock changes in words, from net.periods and net.clock_changes."""
+    periods = n.get("periods") or []
+    if len(periods) < 2:
+        return ()
+    parts = [f"{p['label']} from {_day(p['from'])} to {_day(p['to'])}" for p in periods]
+    dates = ", ".join(c["date"] for c in n.get("clock_changes") or [])
+    return (f"The clocks change on {dates}: local time is {'; '.join(parts)}. Schedules give local times for each "
+            f"side of the change; the UTC column is the same throughout.",)
+
+
+def _period_headers(n: dict) -> tuple[str, ...]:
+    """Column heads for the local times of an hour, one per clock period."""
+    periods = n.get("periods") or []
+    if len(periods) < 2:
+        return (f"Local ({periods[0]['label']})" if periods else "Local",)
+    heads = []
+    for i, p in enumerate(periods):
+        when = f"to {_day(p['to'])}" if i == 0 else f"from {_day(p['from'])}"
+        heads.append(f"Local {p['label']} {when}")
+    return tuple(heads)
+
+
+def _offset_text(n: dict) -> str:
+    """'UTC+1', or 'UTC / UTC+1' when the clocks change in the period."""
+    periods = n.get("periods") or []
+    if len(periods) > 1:
+        return " / ".join(p["label"] for p in periods)
+    return str(n.get("utc_offset_label") or "")
+
+
+def _pct_text(p: int | None) -> str:
+    return "–" if p is None else f"{p} %"
+
+
+def _hour_rows(net: _Net, hours: list[dict]) -> tuple[HourRow, ...]:
+    """Rows from net_schedule.hours or stations[].brief.hours; a second that works on no day is not offered."""
+    rows = []
+    for h in hours:
+        first = net.channel(h.get("first"))
+        useful = (h.get("second_good_days_pct") or 0) > 0
+        second = net.channel(h.get("second")) if useful else None
+        fb = h.get("fallback") or {}
+        rows.append(HourRow(
+            local=tuple(h.get("local_times") or [h.get("local_time", "")]), utc=f"{h['utc_hour']:02d}:00",
+            first=first, first_good=_pct_text(h.get("good_days_pct")) if first else "–",
+            second=second, second_good=_pct_text(h.get("second_good_days_pct")) if second else "–",
+            weak=bool(h.get("weak")), fallback=str(fb.get("text") or ""), gap=first is None))
+    return tuple(rows)
+
+
+def _grid(net: _Net, gid: str, caption: str, hours: list[dict]) -> Grid:
+    """The timetable of a schedule or a link: hours x channels, from the hours' per-channel cells."""
+    order = sorted(net.data["channels"], key=lambda c: (c["freq_khz"], c["id"]))
+    target = round(net.target * 100)
+    rows = []
+    for h in hours:
+        cells = {c["channel"]: c for c in h.get("channels") or []}
+        utc = f"{h['utc_hour']:02d}:00"
+        second_ok = (h.get("second_good_days_pct") or 0) > 0
+        out = []
+        for c in order:
+            cell = cells.get(c["id"])
+            if cell is None or not cell.get("allowed", True):
+                out.append(GridCell("–", "", "na", f"{c['id']} at {utc} UTC: not authorised"))
+                continue
+            p = cell.get("good_days_pct")
+            classes = ["ok" if (p or 0) >= target else "low"]
+            mark, role = "", ""
+            if cell.get("in_window"):
+                classes.append("win")
+            if h.get("first") == c["id"]:
+                classes.append("first")
+                mark, role = "◆", "; the channel for this hour"
+            elif h.get("second") == c["id"] and second_ok:
+                classes.append("second")
+                mark, role = "◇", "; the second channel"
+            where = "; inside the usable window" if cell.get("in_window") else ""
+            out.append(GridCell(_pct_text(p).replace(" %", ""), mark, " ".join(classes),
+                                f"{c['id']} at {utc} UTC: works on {_pct_text(p)} of days{role}{where}"))
+        w = h.get("window_mhz")
+        rows.append(GridRow(local=tuple(h.get("local_times") or [h.get("local_time", "")]), utc=utc,
+                            weak=bool(h.get("weak")), cells=tuple(out),
+                            window="none" if not w else f"{w[0]:.1f}–{w[1]:.1f}"))
+    return Grid(gid, caption, tuple(net.channel(c["id"]) for c in order), _period_headers(net.data["net"]), tuple(rows))
 
 
 def _schedule(net: _Net) -> SchedulePage:
     d = net.data
-    rows = []
-    for h in d["net_schedule"]["hours"]:
-        first = net.channel(h.get("first"))
-        short = first is not None and (h.get("weakest_good_days") or 0) < net.target
-        note = "below target" if short else ""
-        if first and h.get("weakest_link"):
-            note = (note + "; " if note else "") + "weakest link " + h["weakest_link"]
-        rows.append(HourRow(
-            local=h["local_time"], utc=f"{h['utc_hour']:02d}:00", first=first,
-            first_good=pct(h.get("weakest_good_days")) if first else "–", second=net.channel(h.get("second")),
-            second_good=pct(h.get("second_good_days")) if h.get("second") else "–",
-            note=note, gap=first is None, short=short))
-    return SchedulePage(frame=_net_frame(net, "schedule.html", "Schedule"), timezone=d["net"]["timezone"],
-                        changes=str(d["net_schedule"].get("changes_per_day", "–")), target=pct(net.target),
-                        rows=tuple(rows), gaps=_gap_rows(net), links=_link_rows(net))
+    hours = d["net_schedule"]["hours"]
+    return SchedulePage(
+        frame=_net_frame(net, "schedule.html", "Schedule"), timezone=d["net"]["timezone"],
+        offset=_offset_text(d["net"]), clock=_clock_lines(d["net"]),
+        changes=str(d["net_schedule"].get("changes_per_day", "–")), target=pct(net.target),
+        weak=tuple(r["text"] for r in d["net_schedule"].get("weak_runs", [])),
+        grid=_grid(net, "net-grid", "How often each channel works on the weakest link, hour by hour (% of days)", hours),
+        periods=_period_headers(d["net"]), rows=_hour_rows(net, hours), gaps=_gap_rows(net), links=_link_rows(net))
 
 
 def _link_page(net: _Net, ln: dict, row: LinkRow) -> LinkPage:
-    rows = []
-    for h in ln["hours"]:
-        cells = {c["channel"]: c for c in h.get("channels", [])}
-        first, second = net.channel(h.get("first")), net.channel(h.get("second"))
-        working = [c["channel"] for c in h.get("channels", [])
-                   if c.get("allowed", True) and c["good_days"] >= net.target]
-        rows.append(LinkHourRow(
-            local=h["local_time"], utc=f"{h['utc_hour']:02d}:00", muf=num(h["muf_mhz"]), owf=num(h["owf_mhz"]),
-            luf=num(h.get("luf_mhz")), first=first,
-            first_good=pct(cells[h["first"]]["good_days"]) if first and h["first"] in cells else "–",
-            second=second, second_good=pct(cells[h["second"]]["good_days"]) if second and h["second"] in cells else "–",
-            working=", ".join(working) or "none", gap=first is None,
-            short=first is not None and h["first"] in cells and cells[h["first"]]["good_days"] < net.target))
     return LinkPage(frame=_net_frame(net, row.href, f"Link {ln['id']}"), link=row, timezone=net.data["net"]["timezone"],
-                    target=pct(net.target), chart_src=f"charts/link-{safe_name(ln['id'])}.svg",
-                    chart_alt=(f"Usable frequency window of link {ln['id']} across the day, with the assigned channels; "
-                               "the table below gives the same figures hour by hour."),
-                    rows=tuple(rows), gaps=_gap_rows(net, ln["id"]))
+                    offset=_offset_text(net.data["net"]), target=pct(net.target),
+                    grid=_grid(net, "link-grid", f"How often each channel works on link {ln['id']}, hour by hour (% of days)",
+                               ln["hours"]),
+                    gaps=_gap_rows(net, ln["id"]))
+
+
+def _station_page(net: _Net, s: dict, scans: dict[str, "ScanRow"]) -> StationPage:
+    d = net.data
+    b = s.get("brief") or {}
+    ants = {a["id"] for a in d.get("antennas", [])}
+
+    def ant(aid: str) -> NavItem:
+        return NavItem(f"antenna-{safe_name(aid)}.html" if aid in ants else "antennas.html", aid)
+
+    facts = [KeyValue("role", s["role"]), KeyValue("self address", s["address"]),
+             KeyValue("position", f"{s['lat_deg']:.4f}, {s['lon_deg']:.4f} ({s['grid']})"),
+             KeyValue("power", f"{s['power_w']:g} W"), KeyValue("noise at the receiver", str(s.get("noise", "–")))]
+    sun = s.get("sun") or {}
+    if sun.get("sunrise_local") or sun.get("sunset_local"):
+        facts.append(KeyValue(f"sun up / down on {sun.get('date')}",
+                              f"{sun.get('sunrise_local') or 'none'} / {sun.get('sunset_local') or 'none'} local "
+                              f"({sun.get('sunrise_utc') or 'none'} / {sun.get('sunset_utc') or 'none'} UTC)"))
+    tc = b.get("to_control")
+    if tc:
+        facts.append(KeyValue("to control", f"{tc['bearing_deg']:.0f}° ({tc['compass']}), {tc['distance_km']:.1f} km to "
+                                            f"{_station_label(net, tc['station'])}"))
+    elif b.get("far_stations"):
+        facts.append(KeyValue("to the members", "; ".join(
+            f"{_station_label(net, f['station'])} {f['bearing_deg']:.0f}° ({f['compass']}), {f['distance_km']:.1f} km"
+            for f in b["far_stations"])))
+    addresses = [KeyValue("this station", s["address"])]
+    if b.get("control") and b["control"]["station"] != s["id"]:
+        addresses.append(KeyValue(f"control: {b['control']['name']}", b["control"]["address"]))
+    if b.get("net_address"):
+        addresses.append(KeyValue("net", b["net_address"]))
+    addresses += [KeyValue(m["name"], m["address"]) for m in b.get("other_members", [])]
+    used = {h[k] for h in b.get("hours", []) for k in ("first", "second") if h.get(k)}
+    choices = tuple(AntennaChoice(net.channel(r["channel"]), ant(r["antenna"]), str(r.get("why", "")), r["channel"] in used)
+                    for r in b.get("antenna_by_channel", []))
+    single = ant(s["antennas"][0]) if len(s["antennas"]) == 1 else None
+    rigging = [KeyValue(w["antenna"], str(w["text"])) for w in b.get("wire_runs", [])]
+    g = b.get("ground") or {}
+    ground = [KeyValue("system", f"{g.get('system', s['ground']['system'])} on {g.get('soil', s['ground']['soil'])} soil")]
+    if g.get("text"):
+        ground.append(KeyValue("lay out", str(g["text"])))
+    ground.append(KeyValue("how", str(g.get("instruction") or s["ground"].get("instruction") or "")))
+    e = b.get("exposure") or {}
+    exposure = str(e.get("text") or "")
+    if e.get("exceeds_clearance"):
+        exposure += f" — more than the {e['clearance_m']:g} m the plan allows for: see the warnings"
+    links = tuple(r for r in _link_rows(net) if s["id"] in (next(x for x in d["links"] if x["id"] == r.id)["from"],
+                                                            next(x for x in d["links"] if x["id"] == r.id)["to"]))
+    return StationPage(
+        frame=_net_frame(net, f"station-{safe_name(s['id'])}.html", s["name"]), id=s["id"], name=s["name"],
+        address=s["address"], role=s["role"], facts=tuple(facts), addresses=tuple(addresses), single_antenna=single,
+        antennas=choices if single is None else (), rigging=tuple(rigging), ground=tuple(ground), exposure=exposure,
+        weak=tuple(r["text"] for r in b.get("weak_runs", [])), periods=_period_headers(d["net"]), target=pct(net.target),
+        rows=_hour_rows(net, b.get("hours", [])), scan=scans.get(s["id"]), links=links,
+        cards=tuple(NavItem(f"cards/{c}", c) for c in net.cards if safe_name(s["id"]) in c))
 
 
 def _scan(net: _Net) -> ScanPage:
@@ -758,7 +950,7 @@ def _scan(net: _Net) -> ScanPage:
                                  f"{g['scan_period_s']:.1f} s", f"{g['call_time_s']:.1f} s") for g in s["groups"])
         lists.append(ScanRow(_station_label(net, s["station"]), f"scan-{safe_name(s['station'])}", groups,
                              ", ".join(s.get("wasted", [])) or "none", bool(s.get("split_suggested")),
-                             str(s.get("note") or "")))
+                             str(s.get("note") or ""), s["station"]))
     return ScanPage(frame=_net_frame(net, "scan.html", "Scan lists & instructions"), lists=tuple(lists),
                     instructions=markdown_html(net.data["net"].get("instructions_md")))
 
@@ -793,7 +985,8 @@ def _antenna_page(net: _Net, a: dict) -> AntennaPage:
     facts += extra_facts
     swr = tuple(SwrRow(c["channel"], khz_text(c["freq_khz"]),
                        f"{c['impedance_ohm'][0]:.0f} {'+' if c['impedance_ohm'][1] >= 0 else '−'} j{abs(c['impedance_ohm'][1]):.0f} Ω",
-                       f"{c['swr']:.1f}:1", c["swr_class"], f"{c['mismatch_loss_db']:.1f} dB", f"{c['feedline_loss_db']:.1f} dB")
+                       str(c.get("swr_text") or "–"), c["swr_class"], f"{c['mismatch_loss_db']:.1f} dB",
+                       f"{c['feedline_loss_db']:.1f} dB")
                 for c in a.get("channels", []))
     p = a.get("pattern") or {}
     pattern = []
@@ -842,11 +1035,6 @@ def _patterns(a: dict) -> list[dict]:
 def _charts(net: _Net) -> dict[str, str]:
     d = net.data
     out = {"charts/map.svg": charts.station_map(d["stations"], d["links"], title=f"Map of {d['net']['title']}")}
-    for ln in d["links"]:
-        name = safe_name(ln["id"])
-        out[f"charts/link-{name}.svg"] = charts.frequency_window(
-            ln["hours"], d["channels"], title=f"Usable frequencies, link {ln['id']}", target_good_days=net.target,
-            uid="fw")
     freqs = {c["id"]: c["freq_khz"] for c in d["channels"]}
     for a in d.get("antennas", []):
         name = safe_name(a["id"])
@@ -916,7 +1104,11 @@ def render_site(nets: list[dict], *, warnings: dict[str, list[dict]] | None = No
         page(base + "schedule.html", "schedule.html", _schedule(net))
         for ln, row in zip(d["links"], _link_rows(net)):
             page(base + row.href, "link.html", _link_page(net, ln, row))
-        page(base + "scan.html", "scan.html", _scan(net))
+        scan = _scan(net)
+        page(base + "scan.html", "scan.html", scan)
+        by_station = {r.station_id: r for r in scan.lists}
+        for s in d["stations"]:
+            page(base + f"station-{safe_name(s['id'])}.html", "station.html", _station_page(net, s, by_station))
         page(base + "antennas.html", "antennas.html", _antenna_summaries(net))
         for a in d.get("antennas", []):
             page(base + f"antenna-{safe_name(a['id'])}.html", "antenna.html", _antenna_page(net, a))

@@ -13,6 +13,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+from planpack.labels import cut_label, percent
 from planpack.schedule import format_hours
 
 DEFAULT_GOOD_DAYS_THRESHOLD = 0.1
@@ -42,7 +43,7 @@ NET_FIELDS = (
     ("handling", "handling marking", False),
     ("timezone", "time zone", False),
     ("valid", "valid", False),
-    ("target_good_days", "target fraction of good days", False),
+    ("target_good_days", "a channel counts as working on at least", False),
     ("links_rule", "links", False),
     ("control", "control station", True),
     ("card_size", "card size", False),
@@ -82,7 +83,7 @@ SECTIONS = (  # (name, heading), in the order a reviewer reads them
     ("net-hours", "Net channel by hour"),
     ("link-first", "First choice per link"),
     ("gaps", "Hours without a channel"),
-    ("good-days", "Fraction of good days"),
+    ("good-days", "How often the first channel works"),
     ("net", "Net"),
     ("stations", "Stations and addresses"),
     ("channels", "Channels"),
@@ -140,13 +141,16 @@ def _served(link: dict) -> list[float]:
 
 
 def _gap_hours(data: dict) -> dict[frozenset, set[int]]:
-    """UTC hours without a serving channel, per link (by station pair)."""
+    """UTC hours without a serving channel, per link (by station pair): the hours each gap names the link
+    at (``links_by_hour``), as the site's gap hours are, else every hour of a gap that lists it."""
     pairs = {ln["id"]: _pair(ln) for ln in data["links"]}
     out: dict[frozenset, set[int]] = {}
     for g in data["gaps"]:
-        for lid in g["links"]:
-            if lid in pairs:
-                out.setdefault(pairs[lid], set()).update(g["utc_hours"])
+        by_hour = g.get("links_by_hour") or [g["links"]] * len(g["utc_hours"])
+        for h, lids in zip(g["utc_hours"], by_hour):
+            for lid in lids:
+                if lid in pairs:
+                    out.setdefault(pairs[lid], set()).add(h)
     return out
 
 
@@ -179,10 +183,15 @@ def diff_compiled(old: dict, new: dict, *, old_label: str = "old", new_label: st
     return d
 
 
+#: Keys whose values are fractions of days: shown as the site shows them, in percent.
+PERCENT_KEYS = ("target_good_days",)
+
+
 def _fields(d: PlanDiff, section: str, subject: str, a: dict, b: dict, fields) -> None:
     for key, label, operational in fields:
         if a.get(key) != b.get(key):
-            d.add(section, subject, f"{label}: {_show(a.get(key))} → {_show(b.get(key))}", operational)
+            show = (lambda v: f"{percent(v)} of days" if v is not None else "none") if key in PERCENT_KEYS else _show
+            d.add(section, subject, f"{label}: {show(a.get(key))} → {show(b.get(key))}", operational)
 
 
 def _net(d: PlanDiff, old: dict, new: dict) -> None:
@@ -233,8 +242,9 @@ def _links(d: PlanDiff, old: dict, new: dict, local: list[str], threshold: float
             if ups:
                 parts.append(f"better {_hours_label(ups, local)}")
             d.add("good-days", name,
-                  f"good days on the first choice moved by more than {threshold:g}: " + "; ".join(parts)
-                  + f"; largest at {worst:02d}:00 UTC, {sa[worst]:.2f} → {sb[worst]:.2f}", False)
+                  f"the first channel's share of working days moved by more than {round(threshold * 100):d} "
+                  f"percentage points: " + "; ".join(parts)
+                  + f"; most at {worst:02d}:00 UTC, {percent(sa[worst])} → {percent(sb[worst])} of days", False)
 
 
 def _gaps(d: PlanDiff, old: dict, new: dict, local: list[str]) -> None:
@@ -297,9 +307,9 @@ def _antennas(d: PlanDiff, old: dict, new: dict) -> None:
             u, v = cx.get(key), cy.get(key)
             if isinstance(u, (int, float)) and isinstance(v, (int, float)):
                 if abs(u - v) > CUT_TOLERANCE_M:
-                    moved.append(f"{key} {u:.2f} → {v:.2f} m")
+                    moved.append(f"{cut_label(key).lower()} {u:.2f} → {v:.2f} m")
             elif (u is None) != (v is None):
-                moved.append(f"{key} {_show(u)} → {_show(v)}")
+                moved.append(f"{cut_label(key).lower()} {_show(u)} → {_show(v)}")
         if moved:
             d.add("antennas", aid, "cut lengths changed: " + "; ".join(moved), False)
 

@@ -69,26 +69,38 @@ def test_schedule_tables_show_what_plan_json_holds(browser, built_site, http_bas
             net = d["net"]["id"]
             plan = json.loads((folder / net / "plan.json").read_text(encoding="utf-8"))
             assert plan == d
+            periods = len(plan["net"]["periods"])
             page.goto(http_base + f"{net}/schedule.html")
             rows = page.eval_on_selector_all(
                 "#net-schedule tbody tr", "rows => rows.map(r => [...r.cells].map(c => c.innerText.trim()))")
             assert len(rows) == 24
             for cells, h in zip(rows, plan["net_schedule"]["hours"]):
-                assert cells[0] == h["local_time"] and cells[1] == f"{h['utc_hour']:02d}:00"
+                assert cells[:periods] == h["local_times"] and cells[periods] == f"{h['utc_hour']:02d}:00"
+                channel, works, second, _, fails = cells[periods + 1:]
                 if h["first"] is None:
-                    assert "no channel" in cells[2]
+                    assert "no channel" in channel
                 else:
                     khz = next(c["freq_khz"] for c in plan["channels"] if c["id"] == h["first"])
-                    assert cells[2].split()[0] == h["first"] and f"{khz:g}" in cells[2]
-                if h["second"] is not None:
-                    assert cells[4].split()[0] == h["second"]
+                    assert channel.split()[0] == h["first"] and f"{khz:g}" in channel
+                    assert works.split()[:2] == [str(h["good_days_pct"]), "%"]
+                assert ("WEAK" in works.upper().split()) == h["weak"]
+                assert fails == ((h["fallback"] or {}).get("text") or "")
+                if (h["second_good_days_pct"] or 0) > 0:
+                    assert second.split()[0] == h["second"]
             ln = plan["links"][0]
             page.goto(http_base + f"{net}/link-{ln['id']}.html")
             rows = page.eval_on_selector_all(
-                "#link-schedule tbody tr", "rows => rows.map(r => [...r.cells].map(c => c.innerText.trim()))")
-            assert [(r[1], r[5].split()[0] if ln["hours"][i]["first"] else None) for i, r in enumerate(rows)] == \
-                [(f"{h['utc_hour']:02d}:00", h["first"]) for h in ln["hours"]]
-            assert [r[2] for r in rows] == [f"{h['muf_mhz']:.1f}" for h in ln["hours"]]
+                "#link-grid tbody tr", "rows => rows.map(r => [...r.cells].map(c => c.innerText.trim()))")
+            order = [c["id"] for c in sorted(plan["channels"], key=lambda c: (c["freq_khz"], c["id"]))]
+            assert len(rows) == 24
+            for cells, h in zip(rows, ln["hours"]):
+                assert cells[periods] == f"{h['utc_hour']:02d}:00"
+                by = {c["channel"]: c for c in h["channels"]}
+                shown = cells[periods + 1:periods + 1 + len(order)]
+                for cid, text in zip(order, shown):
+                    want = "–" if not by[cid]["allowed"] else str(by[cid]["good_days_pct"])
+                    assert text.lstrip("◆◇") == want, (net, h["utc_hour"], cid)
+                    assert text.startswith("◆") == (h["first"] == cid and by[cid]["allowed"])
     finally:
         ctx.close()
 
@@ -123,7 +135,8 @@ def test_screenshots_and_no_page_wide_scroll(browser, built_site, screenshot_dir
     for d in datas:
         net = d["net"]["id"]
         shots += [f"{net}/index.html", f"{net}/schedule.html", f"{net}/link-{d['links'][0]['id']}.html",
-                  f"{net}/antenna-{d['antennas'][0]['id']}.html", f"{net}/scan.html", f"{net}/safety.html"]
+                  f"{net}/antenna-{d['antennas'][0]['id']}.html", f"{net}/scan.html", f"{net}/safety.html",
+                  f"{net}/station-{d['stations'][-1]['id']}.html"]
     try:
         for rel in shots:
             page.goto((folder / rel).as_uri())
@@ -159,7 +172,7 @@ def test_print_puts_the_handling_marking_on_every_page(browser, built_site, pape
     ctx = browser.new_context()
     page = ctx.new_page()
     try:
-        page.goto((folder / "test-net/link-ops--ridge.html").as_uri())
+        page.goto((folder / "test-net/schedule.html").as_uri())  # a page that prints on several sheets
         pdf = page.pdf(format=paper, print_background=False)
     finally:
         ctx.close()

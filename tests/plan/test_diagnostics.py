@@ -79,17 +79,20 @@ CASES = [
     ("complex-key", mutate(("    name: Operations\n", "    name: Operations\n    ? [a, b]\n    : 1\n")), "yaml-complex-key", "[a, b]", 1),
     ("tag", mutate(("title: Test net", "title: !!python/object:os.system x")), "yaml-tag", "!!python", 1),
     ("two-documents", BASE + "---\nplanpack: 1\n", "yaml-multiple-documents", "---", 1),
+    ("clock-change", mutate(("to: 2027-03-20", "to: 2027-04-10")), "clock-change", "{from: 2027-03-01", 1),
 ]
+#: Codes that are warnings: the plan still reads (``ok``).
+WARNING_CODES = {"unused-antenna", "clock-change"}
 
 
 @pytest.mark.parametrize("name,text,code,needle,nth", CASES, ids=[c[0] for c in CASES])
 def test_each_problem_reported_where_it_is(write_plan, name, text, code, needle, nth):
     result = read_plan(write_plan(text))
-    assert result.ok == (code == "unused-antenna")
+    assert result.ok == (code in WARNING_CODES)
     found = [d for d in result.diagnostics if d.code == code]
     assert found, f"expected {code}, got {[d.format() for d in result.diagnostics]}"
     d = found[0]
-    assert d.severity == ("warning" if code == "unused-antenna" else "error")
+    assert d.severity == ("warning" if code in WARNING_CODES else "error")
     if needle is not None:
         assert (d.line, d.column) == position(text, needle, nth), d.format()
     else:
@@ -121,6 +124,19 @@ def test_every_code_is_exercised():
     tested = {c[2] for c in CASES}
     reading = {"file-unreadable", "file-too-large", "file-encoding", "nul-byte", "yaml-too-deep", "yaml-aliases",
                "yaml-too-many-nodes"}  # tested in test_reader_bounds.py
-    analysis = {"channel-gap", "swr-high", "nvis-height", "nvis-whip", "wasted-channel",
-                "atmospheric-noise"}  # tested with compile
+    analysis = {"channel-gap", "swr-high", "nvis-height", "nvis-whip", "wasted-channel",  # tested with compile
+                "atmospheric-noise",  # tests/acceptance/test_link_budget_trust.py
+                "exposure-clearance"}  # tests/test_briefing.py
     assert set(CODES) - tested - reading - analysis == set()
+
+
+def test_clock_change_names_the_date_and_both_offsets(write_plan):
+    # Europe/Berlin leaves UTC+1 for UTC+2 on the last Sunday of March: 2027-03-28 (EU summer-time rule)
+    result = read_plan(write_plan(mutate(("to: 2027-03-20", "to: 2027-04-10"))))
+    (d,) = [d for d in result.diagnostics if d.code == "clock-change"]
+    assert "2027-03-28" in d.message and "UTC+1 until 2027-03-27" in d.message and "UTC+2 from 2027-03-28" in d.message
+    assert d.key == "net.valid"
+
+
+def test_no_clock_change_no_warning(write_plan):
+    assert not [d for d in read_plan(write_plan(BASE)).diagnostics if d.code == "clock-change"]

@@ -21,7 +21,7 @@ CHANNELS = [
 ]
 
 
-def _local(h: int, offset: int = 1) -> str:
+def _local(h: int, offset: int = 1) -> str:  # offset [h]
     return f"{(h + offset) % 24:02d}:00"
 
 
@@ -66,7 +66,8 @@ def _link(lid: str, a: str, b: str, km: float, scale: float, gap_hours: set[int]
 
 def synthetic_data(net_id: str = "test-net", *, title: str = "Lakeside exercise net",
                    valid_from: str = "2027-03-08", valid_to: str = "2027-03-26",
-                   station_name: str = INJECTION, handling: str | None = "EXERCISE ONLY") -> dict:
+                   station_name: str = INJECTION, handling: str | None = "EXERCISE ONLY",
+                   clock_change: bool = False) -> dict:
     stations = [
         {"id": "ops", "name": "Operations cell", "address": "OPSX", "role": "control", "lat_deg": 47.3769,
          "lon_deg": 8.5417, "grid": "JN47pj", "power_w": 100.0, "noise": "residential", "noise_margin_db": 0.0,
@@ -156,4 +157,206 @@ def synthetic_data(net_id: str = "test-net", *, title: str = "Lakeside exercise 
                          "code": "channel-gap", "key": "links.ops--lake",
                          "message": "no channel serves ops--lake at 03:00-04:00 local"}],
     }
+    _add_brief(data, clock_change)
     return copy.deepcopy(data)
+
+
+def _pct(x: float | None) -> int | None:
+    return None if x is None else int(math.floor(round(x, 3) * 100 + 1e-6))
+
+
+def _hour_fields(first, f, second, s, target: float, locals_: list[str]) -> dict:
+    weak = first is None or f < target
+    p1, p2 = (_pct(f) if first else None), (_pct(s) if second else None)
+    fb = None
+    if weak:
+        fb = ({"channel": second, "good_days_pct": p2, "text": f"try {second} (works on {p2} % of days), then expect to repeat calls"}
+              if second and p2 else {"channel": None, "good_days_pct": None, "text": "no second channel works then: expect to repeat calls"})
+    return {"good_days_pct": p1, "second_good_days_pct": p2, "weak": weak, "fallback": fb, "local_times": locals_}
+
+
+def _runs(rows: list[dict], offsets: list[int]) -> list[dict]:
+    """Weak runs, one per block of consecutive weak hours (no banding: enough for rendering)."""
+    weak = [h for h in range(24) if rows[h]["weak"]]
+    runs, cur = [], []
+    for h in weak:
+        if cur and h == cur[-1] + 1:
+            cur.append(h)
+        else:
+            if cur:
+                runs.append(cur)
+            cur = [h]
+    if cur:
+        runs.append(cur)
+    out = []
+    for run in runs:
+        pcts = [rows[h]["good_days_pct"] or 0 for h in run]
+        local = [f"{_local(run[0], o)}–{_local(run[-1] + 1, o)}" for o in offsets]
+        out.append({"utc_hours": run, "utc": f"{run[0]:02d}:00–{(run[-1] + 1) % 24:02d}:00", "local": local[0],
+                    "local_by_period": local, "good_days_pct_min": min(pcts), "good_days_pct_max": max(pcts),
+                    "text": f"{' / '.join(local)}: works on almost no days ({min(pcts)}–{max(pcts)} %); "
+                            "expect to repeat calls or use the second channel"})
+    return out
+
+
+def _add_brief(data: dict, clock_change: bool) -> None:
+    """The briefing fields of the contract (docs/plan-json.md), shaped by hand from the invented figures."""
+    offsets = [60, 120] if clock_change else [60]
+    net = data["net"]
+    net.update({"utc_offset": "+01:00", "utc_offset_label": "UTC+1", "fallback": None,
+                "periods": ([{"from": net["valid"]["from"], "to": "2027-03-27", "utc_offset": "+01:00", "label": "UTC+1"},
+                             {"from": "2027-03-28", "to": net["valid"]["to"], "utc_offset": "+02:00", "label": "UTC+2"}]
+                            if clock_change else
+                            [{"from": net["valid"]["from"], "to": net["valid"]["to"], "utc_offset": "+01:00", "label": "UTC+1"}]),
+                "clock_changes": [{"date": "2027-03-28", "from": "+01:00", "to": "+02:00"}] if clock_change else []})
+    rev = data["revision"]
+    rev.update({"number": None, "issue_date": None, "label": f"Issue {rev['id']}, undated"})
+    target = net["target_good_days"]
+    locs = lambda h: [_local(h, o // 60) for o in offsets]  # noqa: E731
+    for h in data["net_schedule"]["hours"]:
+        h.update(_hour_fields(h["first"], h["weakest_good_days"], h["second"], h["second_good_days"], target,
+                              locs(h["utc_hour"])))
+    data["net_schedule"]["weak_runs"] = _runs(data["net_schedule"]["hours"], [o // 60 for o in offsets])
+    for h in data["net_schedule"]["hours"]:
+        hrs = [ln["hours"][h["utc_hour"]] for ln in data["links"]]
+        lufs = [x["luf_mhz"] for x in hrs]
+        win = None if None in lufs or max(lufs) >= min(x["owf_mhz"] for x in hrs) else [max(lufs), min(x["owf_mhz"] for x in hrs)]
+        h["window_mhz"] = win
+        h["channels"] = [{"channel": c["id"],
+                          "good_days_pct": _pct(min(x["channels"][i]["good_days"] for x in hrs)),
+                          "allowed": h["utc_hour"] in c["allowed_utc_hours"],
+                          "in_window": win is not None and win[0] <= c["freq_khz"] / 1000 <= win[1]}
+                         for i, c in enumerate(data["channels"])]
+    for g in data["gaps"]:
+        g["links_by_hour"] = [list(g["links"]) for _ in g["utc_hours"]]
+        g["utc_text"] = f"{g['utc_hours'][0]:02d}:00–{(g['utc_hours'][-1] + 1) % 24:02d}:00"
+        g["short"] = "03:00–05:00: no channel reaches LAKEX on enough days; relay through control or expect to repeat calls"
+        g["local_by_period"] = [f"{_local(g['utc_hours'][0], o // 60)}–{_local(g['utc_hours'][-1] + 1, o // 60)}"
+                                for o in offsets]
+    gap_hours = {ln["id"]: sorted({h for g in data["gaps"] if ln["id"] in g["links"] for h in g["utc_hours"]})
+                 for ln in data["links"]}
+    for ln in data["links"]:
+        for hr in ln["hours"]:
+            cells = {c["channel"]: c for c in hr["channels"]}
+            win = None if hr["luf_mhz"] is None else [hr["luf_mhz"], hr["owf_mhz"]]
+            hr["window_mhz"] = win
+            for c in hr["channels"]:
+                c["good_days_pct"] = _pct(c["good_days"])
+                c["in_window"] = win is not None and win[0] <= c["freq_khz"] / 1000 <= win[1]
+            f = cells[hr["first"]]["good_days"] if hr["first"] else None
+            hr["first_good_days_pct"] = _pct(f)
+            hr["second_good_days_pct"] = _pct(cells[hr["second"]]["good_days"]) if hr["second"] else None
+            hr["weak"] = f is None or f < target
+            hr["gap"] = hr["utc_hour"] in gap_hours[ln["id"]]
+            hr["local_times"] = locs(hr["utc_hour"])
+        ln["gap_utc_hours"] = gap_hours[ln["id"]]
+        g = gap_hours[ln["id"]]
+        ln["gap_utc_text"] = f"{g[0]:02d}:00–{(g[-1] + 1) % 24:02d}:00" if g else "none"
+        ln["gap_local_by_period"] = ([f"{_local(g[0], o // 60)}–{_local(g[-1] + 1, o // 60)}" for o in offsets]
+                                     if g else [])
+        ln["weak_utc_hours"] = [hr["utc_hour"] for hr in ln["hours"] if hr["weak"]]
+    for sl in data["scan_lists"]:
+        sl["added_for_schedule"] = []
+    for a in data["antennas"]:
+        for c in a["channels"]:
+            c["swr_text"] = f"{c['swr']:.1f}:1" if c["swr"] < 10 else f"{c['swr']:.0f}:1"
+    data["safety"]["short"] = ["Power lines: keep clear.", "RF: keep the distance on this card.",
+                               "Lightning: stop and disconnect."]
+    data["safety"]["short_pointer"] = "Full cautions: the Safety page."
+    control = data["stations"][0]
+    for s in data["stations"]:
+        others = [m for m in data["stations"] if m["id"] != s["id"] and m["role"] != "control"]
+        far = [] if s is control else [{"station": "ops", "bearing_deg": 300.0, "distance_km": 123.4, "compass": "WNW"}]
+        rows = [{"utc_hour": h["utc_hour"], "first": h["first"], "second": h["second"],
+                 **{k: h[k] for k in ("good_days_pct", "second_good_days_pct", "weak", "fallback", "local_times")}}
+                for h in data["net_schedule"]["hours"]]
+        two = len(s["antennas"]) > 1
+        s["brief"] = {
+            "to_control": None if s is control else far[0], "far_stations": far, "hours": rows,
+            "weak_runs": data["net_schedule"]["weak_runs"],
+            "antenna_by_channel": [{"channel": c["id"], "antenna": s["antennas"][i % len(s["antennas"])], "gain_dbi": 1.5,
+                                    "gains_dbi": {a: 1.5 for a in s["antennas"]},
+                                    "why": "2.0 dB better at the paths' elevation (70–80°)" if two else "the station's only antenna"}
+                                   for i, c in enumerate(data["channels"])],
+            "wire_runs": [{"antenna": a, "run_deg": 30.0, "run_compass": "NNE–SSW",
+                           "rule": "broadside to the far stations (common practice, no source)",
+                           "text": "run the wire NNE–SSW (30°–210°), broadside to the far stations"} for a in s["antennas"]],
+            "ground": {"system": s["ground"]["system"], "soil": s["ground"]["soil"], "instruction": "Bond the set to ground.",
+                       "text": "counterpoise wire 13.26 m (43 ft 6 in)" if s["ground"]["system"] == "counterpoise" else "stake",
+                       "counterpoise_m": 13.26 if s["ground"]["system"] == "counterpoise" else None,
+                       "counterpoise_ft_in": "43 ft 6 in" if s["ground"]["system"] == "counterpoise" else None,
+                       "radial_m": None, "radial_ft_in": None, "radial_count": None, "lowest_freq_khz": 2410.0,
+                       "basis": "quarter wave (common practice, no source)"},
+            "control": {"station": control["id"], "name": control["name"], "address": control["address"]},
+            "net_address": net["net_address"],
+            "other_members": [{"station": m["id"], "name": m["name"], "address": m["address"]} for m in others],
+            "exposure": {"general_public_m": 2.5, "occupational_m": 1.1, "antenna": s["antennas"][0], "clearance_m": None,
+                         "exceeds_clearance": False, "text": "keep people at least 2.5 m from the antenna while transmitting"},
+        }
+
+
+#: A small invented net over a clock change (Europe/London leaves UTC for UTC+1 on 2027-03-28, the EU
+#: summer-time rule) whose only channels are too high for the night: it has gaps on every link, weak
+#: hours, a member with a whip and a dipole, and a member that says people can be kept only 0.5 m from
+#: its antennas at 400 W. Used by the briefing tests and the one-source cross-check of site, cards and
+#: plan.json.
+GAPPY_PLAN = """\
+planpack: 1
+net:
+  id: moor-gaps
+  title: Moorland rescue practice net
+  timezone: Europe/London
+  valid: {from: 2027-03-15, to: 2027-04-10}
+  solar: {ssn: 50}
+  net_address: MOORNET
+  links: hub
+  target_good_days: 0.8
+  fallback: call control by land line
+stations:
+  base:
+    name: Moor base
+    address: MRBASE
+    role: control
+    at: {lat: 54.45, lon: -2.97}
+    power_w: 100
+    noise: rural
+    antenna: base-dipole
+    ground: {soil: medium-dry, system: rods}
+  fell-team-with-a-long-name:
+    name: Fell team at the far upper beck sheepfold
+    address: MRFELL
+    at: {lat: 54.95, lon: -2.35}
+    power_w: 50
+    noise: quiet-rural
+    antenna: [team-whip, team-dipole]
+    ground: {soil: very-dry, system: radials}
+  dale:
+    name: Dale post
+    address: MRDALE
+    at: {lat: 54.05, lon: -2.10}
+    power_w: 400
+    noise: residential
+    antenna: team-dipole
+    ground: {soil: wet, system: counterpoise}
+    clearance_m: 0.5
+channels:
+  - {id: M1, khz: 5380, mode: usb}
+  - {id: M2, khz: 7090, mode: usb}
+  - {id: M3, khz: 10130, mode: usb, hours: "08:00-18:00"}
+antennas:
+  base-dipole:
+    kind: dipole
+    design_khz: 5380
+    height_m: 8
+    matching: wide-tuner
+  team-dipole:
+    kind: inverted-v
+    design_khz: 6200
+    height_m: 9
+    apex_deg: 120
+    matching: wide-tuner
+  team-whip:
+    kind: whip
+    length_m: 3
+    height_m: 1
+"""

@@ -39,7 +39,9 @@ def test_every_page_exists(files):
                  "charts/map.svg", "marking.css"):
         expected.add(f"test-net/{page}")
     for ln in d["links"]:
-        expected |= {f"test-net/link-{ln['id']}.html", f"test-net/charts/link-{ln['id']}.svg"}
+        expected |= {f"test-net/link-{ln['id']}.html"}
+    for st in d["stations"]:
+        expected |= {f"test-net/station-{st['id']}.html"}
     for a in d["antennas"]:
         expected |= {f"test-net/antenna-{a['id']}.html", f"test-net/charts/antenna-{a['id']}-swr.svg",
                      f"test-net/charts/antenna-{a['id']}-pattern.svg", f"test-net/charts/antenna-{a['id']}-sketch.svg"}
@@ -133,7 +135,13 @@ def test_schedule_rows_equal_the_net_schedule(files):
         assert f'<th scope="row" class="t">{h["local_time"]}</th>' in r
         assert f'<td class="t">{h["utc_hour"]:02d}:00</td>' in r
         first = h["first"]
-        assert (f"<b>{first}</b>" in r) if first else ("no channel" in r and "gap" in r)
+        assert (f"<b>{first}</b>" in r) if first else "no channel" in r
+        # every hour shows its percent; a weak hour says so in a word, with what to do instead
+        if first:
+            assert f'{h["good_days_pct"]} %' in r
+        assert ("weak-tag" in r) == h["weak"]
+        if h["weak"]:
+            assert html.escape(h["fallback"]["text"], quote=False) in r
 
 
 def test_cut_sheet_shows_metres_and_the_plans_feet_inches(files):
@@ -192,11 +200,16 @@ def test_same_input_same_bytes_in_another_process():
 def test_source_date_epoch_sets_the_shown_date(monkeypatch):
     monkeypatch.setenv("SOURCE_DATE_EPOCH", "1800000000")  # 2027-01-15 UTC
     page = site.render_site([synthetic_data()])["test-net/index.html"].decode()
-    assert "c-1a2b3c4d5e6f (content hash), 2027-01-15" in page
+    assert "Issue c-1a2b3c4d5e6f, undated" in page  # the compiled label is printed as it is: never re-dated here
     d = synthetic_data()
-    d["revision"] = {"id": "3f2a91c", "kind": "git", "date": "2027-02-02"}
-    page = site.render_site([d])["test-net/index.html"].decode()
-    assert "3f2a91c (git commit), 2027-02-02" in page
+    del d["revision"]["label"]  # an older plan.json: the id and the date
+    assert "c-1a2b3c4d5e6f (content hash), 2027-01-15" in site.render_site([d])["test-net/index.html"].decode()
+    d["revision"] = {"id": "3f2a91c", "kind": "git", "date": "2027-02-02", "number": 14, "issue_date": "2027-02-02",
+                     "label": "Rev 14 of 2027-02-02 (3f2a91c)"}
+    files = site.render_site([d])
+    for path, b in files.items():  # the readable revision on every page, header and footer
+        if path.startswith("test-net/") and path.endswith(".html"):
+            assert b.decode().count("Rev 14 of 2027-02-02 (3f2a91c)") == 2, path
 
 
 def test_cards_are_linked_when_given():
@@ -219,3 +232,92 @@ def test_demo_plans_render():
     for d in datas:
         jsonschema.validate(json.loads(files[f"{d['net']['id']}/plan.json"]), output_schema())
     assert site.render_site(datas) == files
+
+
+def test_overview_gap_hours_come_from_plan_json_and_never_say_none_for_a_link_with_gaps(files):
+    d = synthetic_data()
+    page = files["test-net/index.html"].decode()
+    rows = page.split('id="ln-cap"')[1].split("</tbody>")[0].split("<tr>")[2:]
+    assert len(rows) == len(d["links"])
+    for r, ln in zip(rows, d["links"]):
+        assert f">{ln['id']}</a>" in r
+        if ln["gap_utc_hours"]:
+            assert "none" not in r and f"{ln['gap_utc_text']} UTC" in r and "gap-tag" in r
+        else:
+            assert ">none<" in r
+
+
+def test_weak_hours_in_plain_words_on_the_overview_and_schedule(files):
+    d = synthetic_data()
+    assert d["net_schedule"]["weak_runs"]
+    for name in ("index.html", "schedule.html"):
+        page = html.unescape(files[f"test-net/{name}"].decode())
+        for run in d["net_schedule"]["weak_runs"]:
+            assert run["text"] in page, name
+
+
+def test_link_page_is_a_timetable_not_a_frequency_chart(files):
+    d = synthetic_data()
+    ln = d["links"][1]
+    page = files[f"test-net/link-{ln['id']}.html"].decode()
+    assert "<img" not in page.split("<main")[1]  # no chart as the main view
+    for word in ("MUF", "OWF", "LUF"):
+        assert f">{word}<" not in page  # no MUF/OWF/LUF columns
+    body = page.split('id="link-grid"')[1].split("<tbody>")[1].split("</tbody>")[0]
+    rows = body.split("</tr>")[:-1]
+    assert len(rows) == 24
+    order = [c["id"] for c in sorted(d["channels"], key=lambda c: c["freq_khz"])]
+    for r, h in zip(rows, ln["hours"]):
+        cells = re.findall(r'<td class="c ([^"]*)" title="([^"]*)">(?:<span class="mk" aria-hidden="true">(.)</span>)?([^<]*)</td>', r)
+        assert len(cells) == len(order)
+        by = {c["channel"]: c for c in h["channels"]}
+        for cid, (classes, title, mark, text) in zip(order, cells):
+            cell = by[cid]
+            if not cell["allowed"]:
+                assert "na" in classes.split() and text == "–"
+                continue
+            assert text == str(cell["good_days_pct"])  # the whole percent from plan.json
+            assert ("win" in classes.split()) == cell["in_window"]
+            assert (mark == "◆") == (h["first"] == cid)
+        assert ("weak-tag" in r) == h["weak"]
+
+
+def test_station_pages_say_which_antenna_which_way_and_the_ground(files):
+    d = synthetic_data()
+    for s in d["stations"]:
+        page = html.unescape(re.sub(r"<[^>]+>", "", files[f"test-net/station-{s['id']}.html"].decode()))
+        b = s["brief"]
+        if len(s["antennas"]) > 1:
+            for r in b["antenna_by_channel"]:
+                assert r["why"] in page
+        else:
+            assert f"Rig {s['antennas'][0]} on every channel" in page
+        for w in b["wire_runs"]:
+            assert w["text"] in page
+        if b["to_control"]:
+            assert f"{b['to_control']['bearing_deg']:.0f}° ({b['to_control']['compass']}), {b['to_control']['distance_km']:.1f} km" in page
+        assert b["ground"]["text"] in page and b["exposure"]["text"] in page
+        for m in b["other_members"]:
+            assert m["address"] in page
+
+
+def test_swr_is_printed_from_swr_text():
+    d = synthetic_data()
+    d["antennas"][0]["channels"][0].update({"swr": 235.0, "swr_text": "> 50:1"})
+    files = site.render_site([d])
+    page = files[f"test-net/antenna-{d['antennas'][0]['id']}.html"].decode()
+    assert "&gt; 50:1" in page and "235.0:1" not in page
+    assert "235" not in files[f"test-net/charts/antenna-{d['antennas'][0]['id']}-swr.svg"].decode()
+
+
+def test_clock_change_gives_two_local_columns_headed_with_dates():
+    d = synthetic_data("clock-net", clock_change=True)
+    files = site.render_site([d])
+    page = files["clock-net/schedule.html"].decode()
+    assert "Local UTC+1 to 27 Mar" in page and "Local UTC+2 from 28 Mar" in page
+    assert "The clocks change on 2027-03-28" in page
+    body = page.split('id="net-schedule"')[1].split("<tbody>")[1].split("</tbody>")[0]
+    first = body.split("</tr>")[0]
+    assert '<th scope="row" class="t">01:00</th>' in first and '<td class="t">02:00</td>' in first
+    overview = files["clock-net/index.html"].decode()
+    assert "UTC+1 / UTC+2" in overview

@@ -3,6 +3,8 @@
 from __future__ import annotations
 
 import copy
+import math
+import re
 import json
 
 import pytest
@@ -109,7 +111,18 @@ def test_good_days_threshold(base):
     cell["good_days"] = round(cell["good_days"] - 0.15, 3)
     moved = diff.diff_compiled(base, new, good_days_threshold=0.1).section("good-days")
     assert len(moved) == 1 and "worse 12:00–13:00 UTC" in moved[0].text and not moved[0].operational
+    # percentages in the site's words, never fractions
+    was, now = cell["good_days"] + 0.15, cell["good_days"]
+    assert f"{math.floor(round(was, 3) * 100 + 1e-6)} % → {math.floor(round(now, 3) * 100 + 1e-6)} % of days" in moved[0].text
+    assert "10 percentage points" in moved[0].text and not re.search(r"\b0\.\d\d\b", moved[0].text)
     assert diff.diff_compiled(base, new, good_days_threshold=0.2).section("good-days") == []
+
+
+def test_target_is_shown_in_percent(base):
+    new = copy.deepcopy(base)
+    new["net"]["target_good_days"] = 0.8
+    (c,) = diff.diff_compiled(base, new).section("net")
+    assert c.text == f"a channel counts as working on at least: {round(base['net']['target_good_days'] * 100)} % of days → 80 % of days"
 
 
 def test_links_matched_either_way_round(base):
@@ -119,6 +132,7 @@ def test_links_matched_either_way_round(base):
     ln["from"], ln["to"], ln["id"] = ln["to"], ln["from"], f"{ln['to']}--{ln['from']}"
     for g in new["gaps"]:
         g["links"] = [ln["id"] if x == old_id else x for x in g["links"]]
+        g["links_by_hour"] = [[ln["id"] if x == old_id else x for x in hour] for hour in g.get("links_by_hour", [])]
     assert diff.diff_compiled(base, new).changes == []
 
 
@@ -128,7 +142,7 @@ def test_cut_lengths_and_station_fields(base):
     new["stations"][1]["name"] = "Braemar | <b>camp</b>"
     d = diff.diff_compiled(base, new)
     assert [c.subject for c in d.section("antennas")] == ["wire"]
-    assert "total_m" in d.section("antennas")[0].text
+    assert "radiator, tip to tip" in d.section("antennas")[0].text and "total_m" not in d.section("antennas")[0].text
     assert d.operational == []  # a renamed station or a re-cut wire changes no hour's channel
     md = diff.render_markdown(d)
     assert "<b>" not in md and "\\<b\\>" in md and "Braemar \\| " in md
