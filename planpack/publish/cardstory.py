@@ -245,7 +245,7 @@ def cut_table(cut: dict, kind: str, look: Look, keys: tuple[str, ...] | None = N
     w1 = text_width([(r[1], B, pt) for r in rows])
     w2 = text_width([(r[2], R, pt) for r in rows])
     w0 = max(look.width - w1 - w2, 40)
-    if w0 + w1 + w2 > look.width:  # a very narrow card: the lengths stack under their label
+    if w0 + w1 + w2 > look.width + 0.01:  # a very narrow card: the lengths stack under their label
         body = [[look.P(f"{escape(r[0])}: <b>{escape(r[1])}</b> {escape(r[2])}")] for r in rows]
         return table(body, [look.width], [], look)
     fits = w0 - 2 * CELL_PAD  # a label that fits is a plain string (drawn far faster than a paragraph)
