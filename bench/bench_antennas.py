@@ -10,7 +10,12 @@ and on the shared 41-point band grid (1.5-30 MHz).  Targets:
   with the grid cut to one point, run right after, on the same machine and
   load: the work the antennas cost before the grid was added.  Measured on
   main before the grid (commit bd494aa), same machine, best of 3:
-  danube-relief 1.96 s, southern-alps-sar 1.85 s.
+  danube-relief 1.96 s, southern-alps-sar 1.85 s; the 60-station batch
+  3.12 s.
+
+Each frequency over a real soil costs nec2++ about 17 ms of CPU for its
+Sommerfeld tables, whatever the antenna, so the 41 grid points roughly
+triple the NEC work of a plan with ten channels.
 
     python bench/bench_antennas.py
 """
