@@ -92,13 +92,13 @@ ANTENNA = _obj({
     }),
     "channels": _arr(_obj({
         "channel": STR, "freq_khz": NUM, "impedance_ohm": _arr(NUM, 2),
-        # SWR of the antenna on the feedline: a number capped at 50 (null where NEC's solution is not
-        # physical) and the text to print ("1.4:1", "12:1", "> 50:1", "not solved")
-        "swr": {"type": ["number", "null"], "minimum": 1, "maximum": 50}, "swr_text": STR,
+        # SWR of the antenna on the feedline: a number capped at 50 (the cap where NEC's solution is not
+        # physical, usable false) and the text to print ("1.4:1", "12:1", "> 50:1", "not solved")
+        "swr": {"type": "number", "minimum": 1, "maximum": 50}, "swr_text": STR,
         "swr_class": {"enum": ["fine", "tuner", "poor"]},
         "swr_at_set": {"type": ["number", "null"], "minimum": 1, "maximum": 50}, "swr_at_set_text": STR,
         "matched": {"type": "boolean"}, "usable": {"type": "boolean"},
-        "mismatch_loss_db": NUM_OR_NULL, "feedline_loss_db": NUM,
+        "mismatch_loss_db": NUM, "feedline_loss_db": NUM,
         # the loss from the set's output to the antenna, and its parts (they add up to it)
         "foldback_db": NUM_OR_NULL, "set_mismatch_db": NUM_OR_NULL, "network_loss_db": NUM_OR_NULL,
         "feedline_loss_with_swr_db": NUM_OR_NULL, "ground_loss_db": NUM_OR_NULL, "system_loss_db": NUM,

@@ -98,7 +98,9 @@ class AntennaAnalysis:
         fully), 'poor' (beyond its range; with no device, above 3:1).
     mismatch_loss_db : (c,)
         Mismatch loss of the bare antenna on the feedline [dB], as if nothing
-        matched it (for the SWR table; the budget uses ``losses``).
+        matched it (for the SWR table; the budget uses ``losses``); NaN where
+        NEC's solution is not physical (plan.json: UNUSABLE_LOSS_DB there,
+        and ``swr`` at its cap with ``swr_text`` "not solved").
     feedline_loss_db : (c,)
         Matched feedline loss [dB].
     losses : LossChain of (c,) arrays
@@ -285,14 +287,15 @@ class AntennaAnalysis:
                 "channel": names[i],
                 "freq_khz": _r(f, 3),
                 "impedance_ohm": [_r(z.real, 1), _r(z.imag, 1)],
-                "swr": swr_json(self.swr[i]),
+                # renderers print swr_text; where NEC gave no physical solution the number is the cap
+                "swr": swr_json(self.swr[i]) if L.usable[i] else matching.SWR_TEXT_CAP,
                 "swr_text": swr_text(self.swr[i]),
                 "swr_class": self.swr_class[i],
                 "swr_at_set": swr_json(L.swr_set[i]),
                 "swr_at_set_text": swr_text(L.swr_set[i]),
                 "matched": bool(L.within_range[i]),
                 "usable": bool(L.usable[i]),
-                "mismatch_loss_db": _r(self.mismatch_loss_db[i], 2),
+                "mismatch_loss_db": _r(self.mismatch_loss_db[i], 2) if L.usable[i] else matching.UNUSABLE_LOSS_DB,
                 "feedline_loss_db": _r(self.feedline_loss_db[i], 2),
                 "feedline_loss_with_swr_db": _r(L.feedline_loss_db[i], 2),
                 "foldback_db": _r(L.foldback_db[i], 2),

@@ -256,5 +256,7 @@ def test_nonphysical_nec_solution_is_flagged_not_trusted():
     assert flagged == {2900.0}
     assert r.system_gain_table_dbi[0].max() < -100  # counted as unusable in the link budget
     d = r.to_dict(["A", "B"])
-    assert d["channels"][0]["usable"] is False and d["channels"][0]["swr_text"] == "not solved"
+    c0 = d["channels"][0]
+    assert c0["usable"] is False and c0["swr_text"] == "not solved" and c0["swr_class"] == "poor"
+    assert c0["swr"] == 50.0 and c0["system_loss_db"] == 200.0  # numbers stay numbers for the renderers
     json.dumps(d, allow_nan=False)
