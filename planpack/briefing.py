@@ -29,6 +29,7 @@ from collections.abc import Sequence
 import numpy as np
 
 from planpack import localtime
+from planpack.antennas import matching
 from planpack.antennas.cut import feet_inches, quarter_wave_rule_m
 from planpack.ionosphere import geodesy
 from planpack.plan.diagnostics import Collector
@@ -367,14 +368,10 @@ def antenna_gains_dbi(setup, station: Station) -> dict[str, np.ndarray]:
     """Per antenna of the station: (c, 91) gain from the set's output [dBi] (antenna gain less the
     matching and feedline loss), at elevations 0-90° in 1° steps.
 
-    The one place that reads the per-antenna tables; swap it for the antenna
-    package's own per-station choice when that lands.
+    The one place that reads the per-antenna tables: the same tables, less the
+    same losses, that the link budget uses.
     """
-    out = {}
-    for a in station.antennas:
-        r = setup.by_station[(station.id, a)]
-        out[a] = np.asarray(r.gain_table_dbi) - np.asarray(setup.loss(a, r)[0])[:, None]
-    return out
+    return {a: np.asarray(setup.by_station[(station.id, a)].system_gain_table_dbi) for a in station.antennas}
 
 
 def antenna_by_channel(plan: Plan, setup, station: Station, elevations_deg: np.ndarray,
@@ -574,9 +571,12 @@ def add_briefing(data: dict, plan: Plan, setup, pred, gaps, out: Collector) -> N
     _link_hours(data, pred.good_days, ch_index, labels)
     for st, s in zip(data["stations"], plan.stations):
         st["brief"] = _station_brief(plan, setup, pred, data, s, labels, ch_index, out)
+    picks = {st["id"]: [r["antenna"] for r in st["brief"]["antenna_by_channel"]] for st in data["stations"]}
     for a in data["antennas"]:
-        for c in a.get("channels", []):
+        for i, c in enumerate(a.get("channels", [])):
             c.setdefault("swr_text", swr_text(c["swr"]))
+            # which stations rig this antenna on the channel: the brief's choice, so pages agree
+            c["rig_at"] = [sid for sid in a.get("stations", []) if picks.get(sid) and picks[sid][i] == a["id"]]
         cut = a.get("cut") or {}
         for key, value in list(cut.items()):  # every length in feet and inches too, in one place
             if key.endswith("_m") and isinstance(value, (int, float)) and not isinstance(value, bool):
@@ -584,7 +584,5 @@ def add_briefing(data: dict, plan: Plan, setup, pred, gaps, out: Collector) -> N
 
 
 def swr_text(swr: float | None) -> str:
-    """SWR as printed: '1.4:1', '12:1', '> 50:1' (above 50:1 the figure means only 'unusable')."""
-    if swr is None or swr != swr or swr > 50:
-        return "> 50:1"
-    return f"{swr:.1f}:1" if swr < 10 else f"{swr:.0f}:1"
+    """SWR as printed: '1.4:1', '12:1', '> 50:1' (the antenna package's words; None reads 'not solved')."""
+    return matching.swr_text(float("nan") if swr is None else swr)

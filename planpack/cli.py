@@ -72,17 +72,19 @@ def read_all(paths: list[str]):
 def cmd_check(args) -> int:
     results = read_all(args.plans)
     diags = []
+    bad = 0  # plans with an error, from reading or from the analysis
     for r in results:
-        diags += r.diagnostics
+        mine = list(r.diagnostics)
         if r.ok and not args.no_analysis:
             from planpack.compile import compile_plan
 
-            diags += compile_plan(r.plan, cells=False).diagnostics
+            mine += compile_plan(r.plan, cells=False).diagnostics
+        bad += any(d.severity == "error" for d in mine)
+        diags += mine
     print_diagnostics(diags, args.format)
     if args.format == "text" and not args.quiet:
         errors = sum(d.severity == "error" for d in diags)
         warnings = len(diags) - errors
-        bad = sum(not r.ok for r in results)
         print(f"checked {len(results)} plan{'s' * (len(results) != 1)}: {bad} with errors, "
               f"{errors} error{'s' * (errors != 1)}, {warnings} warning{'s' * (warnings != 1)}", file=sys.stderr)
     return _exit_for(diags, args.strict)

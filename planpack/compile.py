@@ -16,6 +16,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from planpack import __version__, briefing, localtime, safety, schedule
+from planpack.antennas import LOSS_WARN_DB
 from planpack.ionosphere import atmospheric, noise
 from planpack.plan.diagnostics import Collector, Diagnostic
 from planpack.plan.models import Plan
@@ -343,10 +344,6 @@ def _scan_list(st: dict, station_ids: list[str], ch_ids: list[str]) -> dict:
             "split_suggested": suggested, "note": note, "scan_rate": st["scan_rate_chps"]}
 
 
-def _swr_text(swr: float) -> str:
-    return briefing.swr_text(swr)  # the words the site and the cards print
-
-
 #: Excess of the median lightning noise over the site's man-made noise that counts as ruling it [dB]:
 #: four times the power, so the total rises by 7 dB or more (common practice, no source).
 ATMOSPHERIC_RULES_DB = 6.0
@@ -382,31 +379,55 @@ def _noise_warnings(plan: Plan, labels: list[str], out: Collector) -> None:
 _NOISE_KEY = {"city": "city", "residential": "residential", "rural": "rural", "quiet-rural": "quiet_rural"}
 
 
+def _channel_list(plan: Plan, idx: list[int]) -> str:
+    return ", ".join(f"{plan.channels[i].id} ({plan.channels[i].khz:g} kHz)" for i in idx)
+
+
 def _antenna_warnings(plan: Plan, setup: StationAntennas, pred: LinkPredictions, out: Collector) -> None:
-    """SWR above 3:1 on a channel, dipoles outside the NVIS window on an NVIS net, whips alone on one."""
+    """What a planner acts on about the antennas: wire ends within reach, NEC results not to be trusted,
+    much of the set's power lost before the antenna a station rigs on a channel (how much and why),
+    dipoles outside the NVIS window on an NVIS net, and whips alone on one."""
     nvis_net = len(plan.links) > 0 and float(np.max(pred.distance_km)) < NVIS_RANGE_KM
+    ch_ids = [c.id for c in plan.channels]
+    picks = {s.id: setup.best_antenna(s) for s in plan.stations}
     for ant in plan.antennas:
         result = setup.primary[ant.id]
-        at = _At(*plan.where(f"antennas.{ant.id}"))
-        loss, matched = setup.loss(ant.id, result)
-        if ant.kind != "whip":
-            device = {"set-tuner": "the set's tuner", "wide-tuner": "the wide-range tuner",
-                      "feedpoint-coupler": "the feed-point coupler"}[ant.matching]
-            poor = [i for i, c in enumerate(plan.channels) if not matched[i] or result.swr[i] > 3.0]
-            if poor:
-                ids = [plan.channels[i].id for i in poor]
-                listed = ", ".join(f"{plan.channels[i].id} {_swr_text(result.swr[i])}" for i in poor)
-                lost = [i for i in poor if not matched[i]]
-                tail = ""
-                if lost:
-                    tail = (f"; {device} cannot match {', '.join(plan.channels[i].id for i in lost)}: "
-                            f"{min(loss[i] for i in lost):.0f}-{max(loss[i] for i in lost):.0f} dB of the power is lost there")
-                kept = [i for i in poor if matched[i]]
-                if kept:
-                    tail += (f"; {device} matches {', '.join(plan.channels[i].id for i in kept)} "
-                             f"with {max(loss[i] for i in kept):.1f} dB loss at most")
-                out.warning("swr-high", f"antennas.{ant.id}",
-                            f"antennas.{ant.id}: SWR above 3:1 on {len(ids)} of {len(plan.channels)} channels ({listed}){tail}", at)
+        key = f"antennas.{ant.id}"
+        at = _At(*plan.where(key))
+        for w in result.warnings:
+            if w.get("code") == "wire-ends-low":
+                out.warning("antenna-ends-low", f"{key}.height_m", f"{key}.height_m: {w['message']}",
+                            _At(*plan.where(f"{key}.height_m")))
+        unsolved = [i for i in range(len(ch_ids)) if not result.losses.usable[i]]
+        if unsolved:
+            out.warning("antenna-unreliable", key,
+                        f"{key}: NEC gives a non-physical feed resistance on {_channel_list(plan, unsolved)}, so the "
+                        "figures there are not to be trusted and the link budget counts the antenna as unusable on "
+                        "them; wire ends near the ground far below resonance are the usual cause.", at)
+        # channels on which a station rigs this antenna (its best there) and loses much of its power on the way
+        lossy: dict[int, tuple[float, str]] = {}  # channel -> (worst loss [dB], station it is at)
+        rigs: set[str] = set()
+        for s in plan.stations:
+            if ant.id not in s.antennas:
+                continue
+            r = setup.by_station[(s.id, ant.id)]
+            for i, p in enumerate(picks[s.id]):
+                loss = float(r.system_loss_db[i])
+                if p.antenna == ant.id and r.losses.usable[i] and loss > LOSS_WARN_DB:
+                    rigs.add(s.id)
+                    if i not in lossy or loss > lossy[i][0]:
+                        lossy[i] = (loss, s.id)
+        if lossy:
+            idx = sorted(lossy)
+            worst = max(idx, key=lambda i: lossy[i][0])
+            r = setup.by_station[(lossy[worst][1], ant.id)]
+            listed = ", ".join(f"{ch_ids[i]} {lossy[i][0]:.0f} dB" for i in idx)
+            named = sorted(rigs)
+            who = ", ".join(named[:4]) + (f" and {len(named) - 4} more" if len(named) > 4 else "")
+            out.warning("antenna-loss", key,
+                        f"{key}: more than {LOSS_WARN_DB:g} dB of the set's power is lost before this antenna on the "
+                        f"channels where it is the best a station has ({listed}; rigged by {who}). "
+                        f"{r.loss_note(worst)}", at)
         nv = result.nvis_window or {}
         if nvis_net and nv.get("applies") and nv.get("inside") is False:
             out.warning("nvis-height", f"antennas.{ant.id}.height_m",

@@ -160,12 +160,35 @@ ANTENNA = _obj({
         "total_m": NUM_OR_NULL, "leg_m": NUM_OR_NULL, "rule_of_thumb_total_m": NUM_OR_NULL,
         "reflector_m": NUM_OR_NULL, "reflector_below_m": NUM_OR_NULL,
     }, required=["total_m", "leg_m", "rule_of_thumb_total_m", "reflector_m", "reflector_below_m"])]},
+    "matching": _obj({
+        "kind": {"enum": ["none", "set-tuner", "wide-tuner", "feedpoint-coupler"]},
+        "place": {"enum": ["set", "feed", None]}, "max_swr": NUM_OR_NULL, "max_impedance_ohm": NUM_OR_NULL,
+        "coil_q": NUM, "capacitor_q": NUM, "foldback_knee_swr": NUM, "feedline_velocity_factor": NUM,
+        "description": STR, "basis": STR,
+    }),
     "channels": _arr(_obj({
-        "channel": STR, "freq_khz": NUM, "impedance_ohm": _arr(NUM, 2), "swr": NUM,
-        "swr_class": {"enum": ["fine", "tuner", "poor"]}, "mismatch_loss_db": NUM, "feedline_loss_db": NUM,
-        "swr_text": {"type": "string", "pattern": "^(> 50|[0-9]+(\\.[0-9])?):1$"},
+        "channel": STR, "freq_khz": NUM, "impedance_ohm": _arr(NUM, 2),
+        # SWR of the antenna on the feedline: a number capped at 50 (the cap where NEC's solution is not
+        # physical, usable false) and the text to print ("1.4:1", "12:1", "> 50:1", "not solved")
+        "swr": {"type": "number", "minimum": 1, "maximum": 50}, "swr_text": STR,
+        "swr_class": {"enum": ["fine", "tuner", "poor"]},
+        "swr_at_set": {"type": ["number", "null"], "minimum": 1, "maximum": 50}, "swr_at_set_text": STR,
+        "matched": {"type": "boolean"}, "usable": {"type": "boolean"},
+        "mismatch_loss_db": NUM, "feedline_loss_db": NUM,
+        # the loss from the set's output to the antenna, and its parts (they add up to it)
+        "foldback_db": NUM_OR_NULL, "set_mismatch_db": NUM_OR_NULL, "network_loss_db": NUM_OR_NULL,
+        "feedline_loss_with_swr_db": NUM_OR_NULL, "ground_loss_db": NUM_OR_NULL, "system_loss_db": NUM,
+        "loss_note": STR,
+        "rig_at": _arr(STR),
+    # compile always writes every key above; the older ones are required so that hand-made plan.json
+    # files (the renderers' test fixtures) that predate the loss breakdown still validate
     }, required=["channel", "freq_khz", "impedance_ohm", "swr", "swr_class", "mismatch_loss_db", "feedline_loss_db",
                  "swr_text"])),
+    "band": _obj({
+        "freq_khz": _arr(NUM), "impedance_ohm": _arr({"anyOf": [_arr(NUM_OR_NULL, 2)]}),
+        "swr": _arr({"type": ["number", "null"], "minimum": 1, "maximum": 50}), "system_loss_db": _arr(NUM),
+        "peak_gain_dbi": _arr(NUM), "zenith_gain_dbi": _arr(NUM), "usable": _arr({"type": "boolean"}),
+    }),
     "pattern": _obj({"peak_gain_dbi": NUM, "zenith_gain_dbi": NUM, "fraction_above_60deg": FRACTION},
                     required=["peak_gain_dbi", "zenith_gain_dbi", "fraction_above_60deg"]),
     "height_wavelengths": NUM_OR_NULL,

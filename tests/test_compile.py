@@ -122,7 +122,7 @@ def test_badly_cut_antenna_visibly_worsens_the_schedule(tmp_path):
     g_good = good.arrays.good_days[:, :, c2].mean()
     g_bad = bad.arrays.good_days[:, :, c2].mean()
     assert g_bad < g_good - 0.1
-    assert any(d.code == "swr-high" for d in bad.diagnostics)
+    assert any(d.code == "antenna-loss" for d in bad.diagnostics)
 
 
 def test_more_power_never_lowers_good_days(tmp_path):

@@ -1,10 +1,17 @@
-"""Analyse one antenna design over one ground on a set of channels.
+"""Analyse one antenna design over one ground on a set of channels and across the band.
 
 The flow for each (design, ground, frequency set): decide lengths (trim to
 resonance with NEC where the kind is cut for a frequency), build the wire
-model, solve every frequency in one NEC context, then interpret: SWR through
-the balun or transformer, mismatch and feedline losses, the elevation
-pattern, the NVIS height window, and the warnings a planner needs.
+model, solve every assigned channel and every point of the shared band grid
+(:mod:`planpack.bandgrid`) in one NEC context, then interpret: the losses
+from the set to the antenna through the plan's matching (see
+:mod:`planpack.antennas.matching`), the elevation pattern, the NVIS height
+window, and the warnings a planner needs.
+
+Between solved frequencies, :meth:`AntennaAnalysis.figures_at` interpolates
+what varies smoothly (the feed impedance R and X, in log f, and the gain
+pattern) and computes the losses at the exact frequency from the
+interpolated impedance, never by interpolating losses across a resonance.
 
 Results are cached on the frozen inputs, so many stations sharing a design
 solve it once.  The arrays in a result are read-only because the same result
@@ -18,16 +25,21 @@ import os
 import threading
 from collections.abc import Iterable, Sequence
 from concurrent.futures import ProcessPoolExecutor
-from dataclasses import dataclass
+from concurrent.futures.process import BrokenProcessPool
+from dataclasses import dataclass, fields
 
 import numpy as np
+from scipy.interpolate import PchipInterpolator
 
-from . import cut, geometry, ground as gnd, matching, pattern
-from .design import (DIPOLE_KINDS, AntennaDesign, AntennaInputError, GroundSpec,
-                     check_freqs_khz)
+from planpack.bandgrid import grid_khz
+
+from . import geometry, ground as gnd, matching, pattern
+from .design import DIPOLE_KINDS, AntennaDesign, AntennaInputError, GroundSpec, check_freqs_khz
 from .geometry import Model, wavelength_m
-from .solver import solve
-from .trim import Trim, trim_to_resonance
+from .layout import Layout, builder, cut_sheet, layout
+from .losstext import LOSS_WARN_DB, explain_loss
+from .matching import LossChain, loss_chain, match_class, swr_json, swr_text
+from .solver import AntennaSolveError, solve
 
 # Usual NVIS height window for horizontal wires [wavelengths] (common
 # practice, no source); for the optimum over real ground see Witvliet et al.,
@@ -40,16 +52,6 @@ NVIS_WINDOW_BASIS = (
 )
 HORIZONTAL_KINDS = DIPOLE_KINDS + ("folded-terminated",)
 
-# Defaults applied when a plan leaves a field out (common practice, no
-# source); each one applied is listed in the result's assumptions.
-DEFAULT_APEX_DEG = 120.0
-DEFAULT_FOLDED_LENGTH_M = 27.0
-DEFAULT_FOLDED_SPACING_M = 0.9
-DEFAULT_FOLDED_RESISTOR_OHM = 800.0
-DEFAULT_FOLDED_RATIO = 16.0
-DEFAULT_RATIO = 1.0
-WHIP_LOSS_WARN_DB = 10.0
-
 ENGINE = "NEC-2 (nec2++ through PyNEC 2.3.4)"
 
 
@@ -57,10 +59,57 @@ ENGINE = "NEC-2 (nec2++ through PyNEC 2.3.4)"
 
 
 @dataclass(frozen=True)
+class BandFigures:
+    """An antenna's figures at arbitrary frequencies (interpolated between solved ones).
+
+    freqs_khz : (k,) [kHz]
+    impedance_ohm : (k,) complex feed impedance [ohm], interpolated in log f
+        (PCHIP of R and X); NaN where it is not physical.
+    gain_table_dbi : (k, 91) azimuth-averaged gain [dBi] at elevation
+        0..90 deg, relative to the power the antenna accepts; linear in
+        log f between solved frequencies.
+    losses : LossChain of (k,) arrays, computed at each exact frequency.
+    system_gain_table_dbi : (k, 91) ``gain_table_dbi - losses.total_db``:
+        gain [dBi] relative to the set's output power.
+    """
+
+    freqs_khz: np.ndarray
+    impedance_ohm: np.ndarray
+    gain_table_dbi: np.ndarray
+    losses: LossChain
+    system_gain_table_dbi: np.ndarray
+
+
+@dataclass(frozen=True)
 class AntennaAnalysis:
     """Everything computed for one design over one ground on a channel set.
 
     Per-channel arrays follow the order of ``freqs_khz`` as given.
+
+    Channel figures
+    ---------------
+    impedance_ohm : (c,) complex
+        NEC feed impedance [ohm].
+    swr : (c,)
+        SWR of the antenna on the feedline's Z0, through the balun [-]
+        (finite, uncapped; see :func:`planpack.antennas.matching.swr_text`).
+    swr_class : (c,) str
+        'fine' (up to 2:1), 'tuner' (the plan's matching device matches it
+        fully), 'poor' (beyond its range; with no device, above 3:1).
+    mismatch_loss_db : (c,)
+        Mismatch loss of the bare antenna on the feedline [dB], as if nothing
+        matched it (for the SWR table; the budget uses ``losses``); NaN where
+        NEC's solution is not physical (plan.json: UNUSABLE_LOSS_DB there,
+        and ``swr`` at its cap with ``swr_text`` "not solved").
+    feedline_loss_db : (c,)
+        Matched feedline loss [dB].
+    losses : LossChain of (c,) arrays
+        The loss from the set's output to the antenna through the plan's
+        matching, and its breakdown [dB] (foldback, set mismatch, matching
+        network, feedline with its SWR, ground system).
+    system_loss_db : (c,)
+        ``losses.total_db`` [dB]; UNUSABLE_LOSS_DB where NEC's solution is
+        not physical.
 
     Gain tables
     -----------
@@ -72,12 +121,19 @@ class AntennaAnalysis:
     system_gain_table_dbi : (c, 91)
         ``gain_table_dbi - system_loss_db[:, None]``: what the link budget
         should use, relative to the set's output power.
-    system_loss_db : (c,)
-        Dipole kinds and folded-terminated: mismatch loss + matched
-        feedline loss (the set is assumed to deliver its power without a
-        tuner, which is what makes a badly cut antenna show).  Whip: ground
-        loss + tuner loss + feedline loss with SWR (the set's tuner matches
-        it at the base).
+
+    Across the band
+    ---------------
+    solved_khz : (n,)
+        Every frequency solved [kHz], ascending: the band grid, the channels
+        and the reference frequency.
+    solved_impedance_ohm : (n,) complex, as NEC gives it; solved_trusted : (n,) bool, False where
+        it is not physical (:func:`physical_mask`); solved_gain_table_dbi : (n, 91)
+    grid_khz : (g,)
+        The shared band grid (:data:`planpack.bandgrid.GRID_KHZ`) [kHz].
+    grid_losses : LossChain of (g,) arrays
+    grid_gain_table_dbi, grid_system_gain_table_dbi : (g, 91) [dBi]
+    grid_peak_gain_dbi, grid_zenith_gain_dbi : (g,) [dBi]
     """
 
     design: AntennaDesign
@@ -86,20 +142,30 @@ class AntennaAnalysis:
     reference_freq_khz: float
     height_wavelengths: float
     cut: dict
+    transformer_ratio: float
+    ground_ohm: float
     impedance_ohm: np.ndarray
     swr: np.ndarray
     swr_class: tuple[str, ...]
     mismatch_loss_db: np.ndarray
     feedline_loss_db: np.ndarray
-    feedline_loss_with_swr_db: np.ndarray
-    ground_loss_db: np.ndarray | None
-    tuner_loss_db: np.ndarray | None
+    losses: LossChain
     system_loss_db: np.ndarray
     peak_gain_dbi: np.ndarray
     zenith_gain_dbi: np.ndarray
     fraction_above_60deg: np.ndarray
     gain_table_dbi: np.ndarray
     system_gain_table_dbi: np.ndarray
+    solved_khz: np.ndarray
+    solved_impedance_ohm: np.ndarray
+    solved_trusted: np.ndarray
+    solved_gain_table_dbi: np.ndarray
+    grid_khz: np.ndarray
+    grid_losses: LossChain
+    grid_gain_table_dbi: np.ndarray
+    grid_system_gain_table_dbi: np.ndarray
+    grid_peak_gain_dbi: np.ndarray
+    grid_zenith_gain_dbi: np.ndarray
     pattern: dict
     nvis_window: dict
     reflector: dict | None
@@ -113,12 +179,94 @@ class AntennaAnalysis:
         return self.design.kind
 
     @property
+    def matching(self) -> str:
+        return self.design.matching
+
+    @property
     def elevation_deg(self) -> np.ndarray:
         return pattern.ELEVATION_DEG
+
+    # the loss breakdown per channel [dB], for callers that want one figure
+    @property
+    def feedline_loss_with_swr_db(self) -> np.ndarray:
+        return self.losses.feedline_loss_db
+
+    @property
+    def network_loss_db(self) -> np.ndarray:
+        return self.losses.network_loss_db
+
+    @property
+    def ground_loss_db(self) -> np.ndarray:
+        return self.losses.ground_loss_db
+
+    @property
+    def matched(self) -> np.ndarray:
+        """(c,) bool: the plan's matching device matches the antenna fully on the channel."""
+        return self.losses.within_range
+
+    def chain(self, z_ohm, freqs_khz) -> LossChain:
+        """The loss chain of this antenna's matching and feedline for impedances at frequencies."""
+        return _chain(self.design, self.transformer_ratio, self.ground_ohm, z_ohm, freqs_khz)
+
+    def figures_at(self, freqs_khz) -> BandFigures:
+        """Feed impedance, gain and losses at any frequencies within the solved range.
+
+        Parameters
+        ----------
+        freqs_khz : array (k,)
+            Frequencies [kHz] between ``solved_khz[0]`` and ``solved_khz[-1]``
+            (the band grid covers 1500-30000 kHz).
+
+        Returns
+        -------
+        BandFigures
+            Exact at solved frequencies.  Between them R and X are
+            interpolated by PCHIP in log f (no overshoot) and the gain table
+            linearly in log f; the losses are computed at the exact
+            frequency.  Where either neighbouring solution is not physical
+            the antenna counts as unusable there.
+
+        Raises
+        ------
+        AntennaInputError
+            A frequency outside the solved range.
+        """
+        f = np.atleast_1d(np.asarray(freqs_khz, float))
+        s = self.solved_khz
+        lo, hi = float(s[0]), float(s[-1])
+        bad = ~np.isfinite(f) | (f < lo * (1 - 1e-9)) | (f > hi * (1 + 1e-9))
+        if np.any(bad):
+            raise AntennaInputError("freqs_khz", f"frequencies between {lo:g} and {hi:g} kHz, where the "
+                                    "antenna was solved", float(f[bad][0]))
+        ls = np.log(s)
+        lf = np.clip(np.log(np.clip(f, lo, hi)), ls[0], ls[-1])
+        j = np.clip(np.searchsorted(ls, lf, side="left"), 1, len(s) - 1)
+        i = j - 1
+        w = np.clip((lf - ls[i]) / (ls[j] - ls[i]), 0.0, 1.0)
+        g = self.solved_gain_table_dbi
+        gain = (1.0 - w)[:, None] * g[i] + w[:, None] * g[j]
+        zs = self.solved_impedance_ohm
+        r = PchipInterpolator(ls, zs.real)(lf)
+        x = PchipInterpolator(ls, zs.imag)(lf)
+        ok = self.solved_trusted
+        eps = 1e-12
+        usable = np.where(w <= eps, ok[i], np.where(w >= 1 - eps, ok[j], ok[i] & ok[j]))
+        z = np.where(usable & (r > 0), r + 1j * x, np.nan + 0j)
+        losses = self.chain(z, f)
+        return BandFigures(f, z, gain, losses, gain - losses.total_db[:, None])
 
     def to_dict(self, channel_names: Sequence[str | None] | None = None) -> dict:
         """Plain JSON-ready data for ``plan.json`` ``antennas[]`` (without the
         ``id``, ``stations`` and ``exposure`` keys the compiler adds).
+
+        Each channel carries its loss from the set to the antenna and its
+        breakdown (``foldback_db``, ``set_mismatch_db``, ``network_loss_db``,
+        ``feedline_loss_with_swr_db``, ``ground_loss_db``; they add up to
+        ``system_loss_db``), the SWR as a capped number and as text
+        (``swr_text``, "> 50:1" beyond 50:1), the SWR the set sees, and a
+        sentence on what is lost and why (``loss_note``).  ``matching``
+        describes the matching device and its model; ``band`` gives the
+        figures on the shared band grid.
 
         Parameters
         ----------
@@ -131,19 +279,31 @@ class AntennaAnalysis:
             raise ValueError(f"channel_names: expected {len(self.freqs_khz)} names, "
                              f"got {len(names)}")
         by_freq = dict(zip(self.freqs_khz, names))
+        L = self.losses
         channels = []
         for i, f in enumerate(self.freqs_khz):
             z = self.impedance_ohm[i]
-            ch = {
+            channels.append({
                 "channel": names[i],
                 "freq_khz": _r(f, 3),
                 "impedance_ohm": [_r(z.real, 1), _r(z.imag, 1)],
-                "swr": _r(self.swr[i], 2),
+                # renderers print swr_text; where NEC gave no physical solution the number is the cap
+                "swr": swr_json(self.swr[i]) if L.usable[i] else matching.SWR_TEXT_CAP,
+                "swr_text": swr_text(self.swr[i]),
                 "swr_class": self.swr_class[i],
-                "mismatch_loss_db": _r(self.mismatch_loss_db[i], 2),
+                "swr_at_set": swr_json(L.swr_set[i]),
+                "swr_at_set_text": swr_text(L.swr_set[i]),
+                "matched": bool(L.within_range[i]),
+                "usable": bool(L.usable[i]),
+                "mismatch_loss_db": _r(self.mismatch_loss_db[i], 2) if L.usable[i] else matching.UNUSABLE_LOSS_DB,
                 "feedline_loss_db": _r(self.feedline_loss_db[i], 2),
-                "feedline_loss_with_swr_db": _r(self.feedline_loss_with_swr_db[i], 2),
+                "feedline_loss_with_swr_db": _r(L.feedline_loss_db[i], 2),
+                "foldback_db": _r(L.foldback_db[i], 2),
+                "set_mismatch_db": _r(L.set_mismatch_db[i], 2),
+                "network_loss_db": _r(L.network_loss_db[i], 2),
+                "ground_loss_db": _r(L.ground_loss_db[i], 2),
                 "system_loss_db": _r(self.system_loss_db[i], 2),
+                "loss_note": self.loss_note(i),
                 "height_wavelengths": _r(self.design.height_m / wavelength_m(f), 3),
                 "pattern": {
                     "peak_gain_dbi": _r(self.peak_gain_dbi[i], 2),
@@ -151,25 +311,33 @@ class AntennaAnalysis:
                     "fraction_above_60deg": _r(self.fraction_above_60deg[i], 3),
                 },
                 "elevation_gain_dbi": [_r(g, 2) for g in self.gain_table_dbi[i]],
-            }
-            if self.ground_loss_db is not None:
-                ch["matched_by_tuner"] = True
-                ch["ground_loss_db"] = _r(self.ground_loss_db[i], 2)
-                ch["tuner_loss_db"] = _r(self.tuner_loss_db[i], 2)
-            channels.append(ch)
+            })
         warnings = []
         for w in self.warnings:
             w = dict(w)
             if "freq_khz" in w:
                 w["channel"] = by_freq.get(w["freq_khz"])
+            if "freqs_khz" in w:
+                w["channels"] = [by_freq.get(f) for f in w["freqs_khz"]]
             warnings.append(w)
+        G = self.grid_losses
         return {
             "kind": self.design.kind,
             "design_khz": self.design.design_khz,
             "reference_freq_khz": _r(self.reference_freq_khz, 3),
             "height_m": self.design.height_m,
             "cut": _round_tree(self.cut),
+            "matching": self._matching_dict(),
             "channels": channels,
+            "band": {
+                "freq_khz": [_r(f, 3) for f in self.grid_khz],
+                "impedance_ohm": [[_r(z.real, 1), _r(z.imag, 1)] for z in self.grid_impedance_ohm],
+                "swr": [swr_json(s) for s in G.swr_feed],
+                "system_loss_db": [_r(x, 2) for x in G.total_db],
+                "peak_gain_dbi": [_r(x, 2) for x in self.grid_peak_gain_dbi],
+                "zenith_gain_dbi": [_r(x, 2) for x in self.grid_zenith_gain_dbi],
+                "usable": [bool(u) for u in G.usable],
+            },
             "pattern": _round_tree(self.pattern),
             "height_wavelengths": _r(self.height_wavelengths, 3),
             "nvis_window": _round_tree(self.nvis_window),
@@ -179,6 +347,33 @@ class AntennaAnalysis:
             "warnings": _round_tree(warnings),
             "assumptions": list(self.assumptions),
             "solver": dict(self.solver),
+        }
+
+    @property
+    def grid_impedance_ohm(self) -> np.ndarray:
+        """(g,) NEC feed impedance on the band grid [ohm]."""
+        idx = np.searchsorted(self.solved_khz, self.grid_khz)
+        return self.solved_impedance_ohm[idx]
+
+    def loss_note(self, i: int) -> str:
+        """A sentence on what is lost between the set and the antenna on channel ``i``, and why."""
+        return explain_loss(self.losses, i, freq_khz=self.freqs_khz[i], kind=self.kind, matching=self.matching,
+                            z_ant_ohm=complex(self.impedance_ohm[i]), ground_ohm=self.ground_ohm,
+                            coil_q=self.design.matching_coil_q, ratio=self.transformer_ratio)
+
+    def _matching_dict(self) -> dict:
+        dev = matching.DEVICES[self.matching]
+        return {
+            "kind": dev.key,
+            "place": dev.place,
+            "max_swr": dev.max_swr,
+            "max_impedance_ohm": dev.max_impedance_ohm,
+            "coil_q": self.design.matching_coil_q,
+            "capacitor_q": matching.DEFAULT_CAPACITOR_Q,
+            "foldback_knee_swr": matching.FOLDBACK_KNEE_SWR,
+            "feedline_velocity_factor": self.design.feed_velocity_factor,
+            "description": dev.description,
+            "basis": MATCHING_BASIS,
         }
 
     def _ground_dict(self) -> dict:
@@ -192,6 +387,17 @@ class AntennaAnalysis:
             "constants_source": "ITU-R P.527" if eps is not None else "idealised",
             "whip_loss_model": self.whip_ground,
         }
+
+
+MATCHING_BASIS = (
+    "Loss from the set's output to the antenna: the set reduces its power when the SWR it sees is above "
+    f"{matching.FOLDBACK_KNEE_SWR:g}:1 (it holds the reflected power at that of {matching.FOLDBACK_KNEE_SWR:g}:1; "
+    "common practice, no source) and loses the mismatch that is left; the tuner or coupler is an L-network of "
+    "a series coil and a shunt capacitor with their unloaded Q, tuned for the match; beyond its range it leaves "
+    "a residual SWR that grows with the load's; the feedline loses its matched loss, more with the SWR on it "
+    "(ARRL Antenna Book relation) and transforms the impedance (telegrapher's equation); a whip's ground system "
+    "takes its share at the base.  Ranges and Q are typical figures (common practice, no source)."
+)
 
 
 def _r(x, nd: int):
@@ -218,244 +424,66 @@ def _round_tree(obj):
     return obj
 
 
-# ---------------------------------------------------------------- lengths
-
-
-@dataclass(frozen=True)
-class _Layout:
-    """Decided dimensions of a design, ready to build."""
-
-    total_m: float
-    trim: Trim | None
-    reflector_m: float | None
-    reflector_height_m: float | None
-    apex_deg: float | None
-    spacing_m: float | None
-    resistor_ohm: float | None
-    ratio: float
-    seg_m: float
-    radius_m: float
-    assumptions: tuple[str, ...]
-    warnings: tuple[dict, ...]
-
-
-def _builder(design: AntennaDesign, lay_seg_m: float, radius_m: float, apex_deg, spacing_m,
-             resistor_ohm, reflector_height_m):
-    h = design.height_m
-    k = design.kind
-    if k == "dipole":
-        return lambda L: geometry.dipole(L, h, radius_m, lay_seg_m)
-    if k == "inverted-v":
-        return lambda L: geometry.inverted_v(L, h, apex_deg, radius_m, lay_seg_m)
-    if k == "dipole-reflector":
-        return lambda L: geometry.dipole_with_reflector(
-            L, h, radius_m, lay_seg_m, L * (1.0 + design.reflector_longer), reflector_height_m)
-    if k == "folded-terminated":
-        return lambda L: geometry.folded_terminated(L, h, spacing_m, radius_m, lay_seg_m,
-                                                    resistor_ohm)
-    return lambda L: geometry.whip(L, h, radius_m, lay_seg_m)
-
-
-_TRIM_CACHE: dict[tuple, _Layout] = {}
-_LOCK = threading.Lock()
-
-
-def _layout(design: AntennaDesign, ground: GroundSpec) -> _Layout:
-    key = (design, ground)
-    with _LOCK:
-        hit = _TRIM_CACHE.get(key)
-    if hit is not None:
-        return hit
-    lay = _decide_layout(design, ground)
-    with _LOCK:
-        _TRIM_CACHE[key] = lay
-    return lay
-
-
-def _decide_layout(d: AntennaDesign, g: GroundSpec) -> _Layout:
-    assumptions: list[str] = []
-    warnings: list[dict] = []
-    seg = geometry.segment_length_m(d.design_khz, d.design_khz)
-    radius = d.wire_mm / 2000.0
-    apex = spacing = resistor = refl_h = None
-    ratio = d.transformer_ratio
-    if ratio is None:
-        ratio = DEFAULT_FOLDED_RATIO if d.kind == "folded-terminated" else DEFAULT_RATIO
-        assumptions.append(f"transformer_ratio not given: {ratio:g}:1 assumed "
-                           "(common practice, no source)")
-    if d.kind == "inverted-v":
-        apex = d.apex_deg
-        if apex is None:
-            apex = DEFAULT_APEX_DEG
-            assumptions.append(f"apex_deg not given: {apex:g} degrees between the legs "
-                               "assumed (common practice, no source)")
-    if d.kind == "dipole-reflector":
-        lam = wavelength_m(d.design_khz)
-        want = d.height_m - d.reflector_below_wl * lam
-        refl_h = max(want, geometry.MIN_REFLECTOR_HEIGHT_M)
-        if refl_h >= d.height_m - 0.5:
-            raise AntennaInputError(
-                "AntennaDesign.height_m",
-                f"a dipole-reflector hung at least {geometry.MIN_REFLECTOR_HEIGHT_M + 0.5:g} m "
-                "up, so that its reflector fits below it", d.height_m)
-        if want < geometry.MIN_REFLECTOR_HEIGHT_M:
-            warnings.append({
-                "code": "reflector-raised",
-                "severity": "warning",
-                "message": (f"the reflector would be {d.reflector_below_wl:g} wavelength "
-                            f"({d.reflector_below_wl * lam:.1f} m) below the dipole, under "
-                            f"the {geometry.MIN_REFLECTOR_HEIGHT_M:g} m minimum; it is "
-                            f"placed at {refl_h:.1f} m, {d.height_m - refl_h:.1f} m below"),
-            })
-    if d.kind == "folded-terminated":
-        spacing = d.spacing_m if d.spacing_m is not None else DEFAULT_FOLDED_SPACING_M
-        resistor = d.resistor_ohm if d.resistor_ohm is not None else DEFAULT_FOLDED_RESISTOR_OHM
-        for name, given, val, unit in (("length_m", d.length_m, DEFAULT_FOLDED_LENGTH_M, "m"),
-                                       ("spacing_m", d.spacing_m, spacing, "m"),
-                                       ("resistor_ohm", d.resistor_ohm, resistor, "ohm")):
-            if given is None:
-                assumptions.append(f"{name} not given: {val:g} {unit} assumed for a 2-30 MHz "
-                                   "folded-terminated dipole (common practice, no source)")
-        if d.height_m - spacing < geometry.MIN_REFLECTOR_HEIGHT_M:
-            raise AntennaInputError(
-                "AntennaDesign.height_m",
-                f"a height at least {spacing + geometry.MIN_REFLECTOR_HEIGHT_M:g} m so that "
-                f"the lower wire, {spacing:g} m below, stays "
-                f"{geometry.MIN_REFLECTOR_HEIGHT_M:g} m above ground", d.height_m)
-    build = _builder(d, seg, radius, apex, spacing, resistor, refl_h)
-
-    trim = None
-    if d.kind == "folded-terminated":
-        total = d.length_m if d.length_m is not None else DEFAULT_FOLDED_LENGTH_M
-    elif d.kind == "whip" and d.length_m is not None:
-        total = d.length_m
-    elif d.kind == "whip":
-        start = max(cut.quarter_wave_rule_m(d.design_khz) - d.height_m, 1.0)
-        trim = trim_to_resonance(build, g.soil, d.design_khz, start, bonded_vertical=True)
-        total = trim.length_m
-    else:
-        rule = cut.half_wave_rule_m(d.design_khz)
-        cap = None
-        if d.kind == "inverted-v":
-            _check_inverted_v_ends(d, rule, apex, seg)
-            # Longest wire whose ends stay above half the modelling minimum.
-            drop = math.cos(math.radians(apex / 2.0))
-            feed = min(geometry.INVERTED_V_FEED_M, 0.1 * rule)
-            cap = 2.0 * (d.height_m - geometry.MIN_WIRE_HEIGHT_M / 2) / max(drop, 1e-9) + feed
-        trim = trim_to_resonance(build, g.soil, d.design_khz, rule, max_length_m=cap)
-        total = trim.length_m
-    if trim is not None and not trim.resonant:
-        warnings.append({
-            "code": "no-resonance",
-            "severity": "warning",
-            "message": (f"NEC found no resonance near the rule-of-thumb length at "
-                        f"{d.design_khz:g} kHz; the rule-of-thumb length {total:.2f} m is "
-                        "used; check the height and the ground"),
-        })
-    if d.kind == "inverted-v":
-        end_h = _check_inverted_v_ends(d, total, apex, seg)
-        if end_h < geometry.MIN_END_HEIGHT_M:
-            warnings.append({
-                "code": "inverted-v-ends-low",
-                "severity": "warning",
-                "message": (f"the leg ends come down to {end_h:.1f} m, below the "
-                            f"{geometry.MIN_END_HEIGHT_M:g} m minimum: the ends carry high RF "
-                            "voltage; raise the apex or widen the angle between the legs"),
-            })
-    refl_m = total * (1.0 + d.reflector_longer) if d.kind == "dipole-reflector" else None
-    return _Layout(total, trim, refl_m, refl_h, apex, spacing, resistor, float(ratio), seg,
-                   radius, tuple(assumptions), tuple(warnings))
-
-
-def _check_inverted_v_ends(d: AntennaDesign, total_m: float, apex: float, seg: float) -> float:
-    end_h = geometry.inverted_v_end_height_m(total_m, d.height_m, apex, seg)
-    if end_h < geometry.MIN_WIRE_HEIGHT_M:
-        raise AntennaInputError(
-            "AntennaDesign.height_m",
-            f"an apex high enough for {total_m / 2:.1f} m legs at {apex:g} degrees to end "
-            f"at least {geometry.MIN_END_HEIGHT_M:g} m above ground (they would end at "
-            f"{end_h:.1f} m); raise the apex or widen apex_deg", d.height_m)
-    return end_h
-
-
-def _cut_sheet(d: AntennaDesign, lay: _Layout) -> dict:
-    kind = d.kind
-    total = lay.total_m
-    leg = total / 2.0 if kind in DIPOLE_KINDS else None
-    rule = None
-    if kind in DIPOLE_KINDS:
-        rule = cut.half_wave_rule_m(d.design_khz)
-    elif kind == "whip" and d.design_khz is not None:
-        rule = cut.quarter_wave_rule_m(d.design_khz)
-    below = d.height_m - lay.reflector_height_m if lay.reflector_height_m is not None else None
-    # Pieces of wire and how many ends each has to loop: dipole legs run from
-    # the centre insulator to an end insulator; a whip is bought, not cut.
-    if kind in DIPOLE_KINDS:
-        leg_cut = cut.with_allowance_m(leg, 2)
-        total_cut = 2 * leg_cut
-    elif kind == "folded-terminated":
-        leg_cut = None
-        total_cut = cut.with_allowance_m(total, 2)
-    else:
-        leg_cut = None
-        total_cut = None
-    sheet = {
-        "total_m": total,
-        "leg_m": leg,
-        "rule_of_thumb_total_m": rule,
-        "rule_of_thumb_leg_m": rule / 2.0 if rule is not None and kind in DIPOLE_KINDS else None,
-        "rule_of_thumb_basis": (
-            "468 / f[MHz] ft for a half-wave dipole (common practice, no source)"
-            if kind in DIPOLE_KINDS else
-            "234 / f[MHz] ft for a quarter-wave vertical (common practice, no source)"
-            if rule is not None else None),
-        "rule_vs_nec_percent": (100.0 * (rule - total) / total) if rule is not None else None,
-        "reflector_m": lay.reflector_m,
-        "reflector_below_m": below,
-        "reflector_height_m": lay.reflector_height_m,
-        "total_ft_in": cut.feet_inches(total),
-        "leg_ft_in": cut.feet_inches(leg),
-        "rule_of_thumb_total_ft_in": cut.feet_inches(rule),
-        "reflector_ft_in": cut.feet_inches(lay.reflector_m),
-        "reflector_below_ft_in": cut.feet_inches(below),
-        "end_allowance_m": cut.END_ALLOWANCE_M if total_cut is not None else None,
-        "allowance_basis": ("cut each piece with extra for the end loops and insulators: "
-                            f"{cut.END_ALLOWANCE_M * 100:g} cm at each end "
-                            "(common practice, no source)") if total_cut is not None else None,
-        "leg_cut_with_extra_m": leg_cut,
-        "leg_cut_with_extra_ft_in": cut.feet_inches(leg_cut),
-        "total_cut_with_extra_m": total_cut,
-        "total_cut_with_extra_ft_in": cut.feet_inches(total_cut),
-        "reflector_cut_with_extra_m": cut.with_allowance_m(lay.reflector_m, 2),
-        "reflector_cut_with_extra_ft_in": cut.feet_inches(cut.with_allowance_m(lay.reflector_m, 2)),
-        "trimmed": lay.trim is not None and lay.trim.resonant,
-        "trimmed_at": ({"freq_khz": d.design_khz, "height_m": d.height_m,
-                        "wire_mm": d.wire_mm} if lay.trim is not None else None),
-        "resonant_impedance_ohm": ([lay.trim.impedance_ohm.real, lay.trim.impedance_ohm.imag]
-                                   if lay.trim is not None else None),
-        "apex_deg": lay.apex_deg,
-        "end_height_m": (geometry.inverted_v_end_height_m(total, d.height_m, lay.apex_deg,
-                                                          lay.seg_m)
-                         if kind == "inverted-v" else None),
-        "min_end_height_m": geometry.MIN_END_HEIGHT_M if kind == "inverted-v" else None,
-        "spacing_m": lay.spacing_m,
-        "resistor_ohm": lay.resistor_ohm,
-        "transformer_ratio": lay.ratio,
-    }
-    return sheet
-
-
 # ---------------------------------------------------------------- analysis
 
 
 _ANALYSIS_CACHE: dict[tuple, AntennaAnalysis] = {}
 _STATS = {"hits": 0, "misses": 0}
+_LOCK = threading.Lock()
 
 
 def _readonly(a: np.ndarray) -> np.ndarray:
     a = np.array(a)
     a.flags.writeable = False
     return a
+
+
+def _readonly_chain(c: LossChain) -> LossChain:
+    return LossChain(**{f.name: _readonly(getattr(c, f.name)) for f in fields(LossChain)})
+
+
+def _chain(d: AntennaDesign, ratio: float, ground_ohm: float, z_ohm, freqs_khz) -> LossChain:
+    return loss_chain(z_ohm, freqs_khz, matching=d.matching, ratio=ratio, z0_ohm=d.feed_z0_ohm,
+                      line_length_m=d.feed_length_m, line_db_per_100m_at_10mhz=d.feed_loss_db_per_100m_at_10mhz,
+                      velocity_factor=d.feed_velocity_factor, ground_ohm=ground_ohm,
+                      coil_q=d.matching_coil_q)
+
+
+#: A solved feed resistance this far below those of its neighbours is taken as NEC's failure, not physics.
+DIP_FACTOR = 0.25
+
+
+def physical_mask(z_ohm: np.ndarray) -> np.ndarray:
+    """(n,) True where a feed impedance solved at ascending frequencies can be trusted.
+
+    NEC-2's Sommerfeld ground (as nec2++ implements it) fails for wires very
+    low in wavelengths: measured here, a horizontal wire 2 m up over
+    medium-dry ground at 2.4-3.4 MHz gets R of -65 to -127 ohm.  The
+    failure shows as R <= 0, and at its edges as a point whose R has
+    collapsed next to it: a point beside an untrusted one whose R is under
+    DIP_FACTOR times the median of the two trusted points beyond it, on the
+    side away from the failure, is not trusted either.
+    """
+    r = np.asarray(z_ohm).real
+    ok = np.isfinite(r) & (r > 0.0)
+    n = len(r)
+    changed = True
+    while changed:
+        changed = False
+        good = np.flatnonzero(ok)
+        for i in good:
+            for side in (-1, 1):
+                j = i + side
+                if not (0 <= j < n) or ok[j]:
+                    continue
+                beyond = good[good > i][:2] if side < 0 else good[good < i][-2:]
+                if len(beyond) and r[i] < DIP_FACTOR * np.median(r[beyond]):
+                    ok[i] = False
+                    changed = True
+                    break
+            if changed:
+                break
+    return ok
 
 
 def _reference_freq_khz(d: AntennaDesign, freqs: tuple[float, ...]) -> float:
@@ -465,46 +493,39 @@ def _reference_freq_khz(d: AntennaDesign, freqs: tuple[float, ...]) -> float:
 def _analyse_uncached(design: AntennaDesign, ground: GroundSpec,
                       freqs: tuple[float, ...]) -> AntennaAnalysis:
     d = design
-    lay = _layout(d, ground)
+    lay: Layout = layout(d, ground)
     ref = _reference_freq_khz(d, freqs)
-    solve_set = tuple(sorted(set(freqs) | {ref}))
-    seg = geometry.segment_length_m(d.design_khz, solve_set[-1])
-    build = _builder(d, seg, lay.radius_m, lay.apex_deg, lay.spacing_m, lay.resistor_ohm,
-                     lay.reflector_height_m)
+    band = grid_khz()
+    solve_set = tuple(sorted(set(freqs) | {ref} | set(band)))
+    seg = geometry.segment_length_m(d.design_khz, max(max(freqs), ref), band_top_khz=band[-1])
+    build = builder(d, seg, lay.radius_m, lay.apex_deg, lay.spacing_m, lay.resistor_ohm,
+                    lay.reflector_height_m)
     model: Model = build(lay.total_m)
     z_all, g_all = solve(model, ground.soil, solve_set, pattern=True,
                          bonded_vertical=d.kind == "whip")
+    trusted = physical_mask(z_all)
+    z_use = np.where(trusted, z_all, np.nan + 0j)  # an untrusted solution makes the antenna unusable there
     idx = [solve_set.index(f) for f in freqs]
+    gidx = [solve_set.index(f) for f in band]
     ridx = solve_set.index(ref)
     summ = pattern.summary(g_all)
     z = z_all[idx]
     f = np.asarray(freqs, float)
+    ground_ohm = gnd.ground_loss_ohm(ground.soil, ground.system) if d.kind == "whip" else 0.0
 
-    # Feed-point match and losses.
-    ground_loss = tuner_loss = None
-    matched_db = matching.matched_line_loss_db(f, d.feed_length_m,
-                                               d.feed_loss_db_per_100m_at_10mhz)
-    if d.kind == "whip":
-        r_g = gnd.ground_loss_ohm(ground.soil, ground.system)
-        z_term = z + r_g  # what the tuner sees: the ground loss is in series
-        gamma = matching.reflection(z_term, d.feed_z0_ohm, lay.ratio)
-        r = np.maximum(z.real, 1e-6)
-        r_t = np.abs(z.imag) / gnd.TUNER_Q
-        ground_loss = 10.0 * np.log10((r + r_g) / r)
-        tuner_loss = 10.0 * np.log10((r + r_g + r_t) / (r + r_g))
-        with_swr = matching.line_loss_with_swr_db(matched_db, gamma)
-        system_loss = ground_loss + tuner_loss + with_swr
-    else:
-        gamma = matching.reflection(z, d.feed_z0_ohm, lay.ratio)
-        with_swr = matching.line_loss_with_swr_db(matched_db, gamma)
-    swr = matching.swr(gamma)
-    mismatch = matching.mismatch_loss_db(gamma)
-    if d.kind != "whip":
-        system_loss = mismatch + matched_db
-    classes = tuple(matching.swr_class(float(s)) for s in swr)
+    # Feed-point match and losses, on the channels and across the band.
+    chain = _chain(d, lay.ratio, ground_ohm, z_use[idx], f)
+    grid_chain = _chain(d, lay.ratio, ground_ohm, z_use[gidx], np.asarray(band))
+    gamma = matching.reflection(z, d.feed_z0_ohm, lay.ratio)
+    swr = np.where(chain.usable, matching.swr(gamma), np.nan)
+    mismatch = np.where(chain.usable, matching.mismatch_loss_db(gamma), np.nan)
+    matched_db = matching.matched_line_loss_db(f, d.feed_length_m, d.feed_loss_db_per_100m_at_10mhz)
+    classes = tuple(match_class(float(s), bool(m), d.matching) for s, m in zip(swr, chain.within_range))
+    system_loss = chain.total_db
 
     table = summ["table_dbi"][idx]
     sys_table = table - system_loss[:, None]
+    grid_table = summ["table_dbi"][gidx]
 
     lam_ref = wavelength_m(ref)
     h_wl = d.height_m / lam_ref
@@ -525,47 +546,39 @@ def _analyse_uncached(design: AntennaDesign, ground: GroundSpec,
 
     warnings = list(lay.warnings)
     for i, fk in enumerate(freqs):
-        if z[i].real <= 0.0:  # NEC-2's thin-wire model fails for wires very near the ground far below resonance
+        if not chain.usable[i]:  # NEC-2's thin-wire model fails for wires very near the ground far below resonance
             warnings.append({
                 "code": "solver-unreliable",
                 "severity": "warning",
                 "freq_khz": fk,
-                "message": (f"NEC-2 gives a non-physical feed resistance ({z[i].real:.1f} ohm) at {fk:g} kHz; "
-                            f"the figures for this channel are not to be trusted (wire ends too near the "
-                            f"ground for this frequency?); the link budget counts it as unusable"),
+                "message": (f"NEC-2 gives a non-physical feed resistance ({z[i].real:.1f} ohm) at {fk:g} kHz, "
+                            "so the figures for this channel are not to be trusted and the link budget counts "
+                            "the antenna as unusable there; wire ends near the ground far below resonance are "
+                            "the usual cause."),
             })
     if applies and not inside:
         warnings.append({
             "code": "outside-nvis-window",
             "severity": "warning",
-            "message": (f"hung at {d.height_m:g} m, {h_wl:.2f} wavelength at {ref:g} kHz: "
+            "message": (f"Hung at {d.height_m:g} m, {h_wl:.2f} wavelength at {ref:g} kHz, the antenna is "
                         f"outside the usual NVIS window of {lo:g}-{hi:g} wavelength "
-                        f"({lo * lam_ref:.1f}-{hi * lam_ref:.1f} m)"),
+                        f"({lo * lam_ref:.1f}-{hi * lam_ref:.1f} m)."),
         })
-    for i, fk in enumerate(freqs):
-        if d.kind != "whip" and swr[i] > matching.SWR_TUNER_MAX:
-            warnings.append({
-                "code": "swr-above-3",
-                "severity": "warning",
-                "freq_khz": fk,
-                "swr": float(swr[i]),
-                "mismatch_loss_db": float(mismatch[i]),
-                "message": (f"SWR {swr[i]:.1f}:1 at {fk:g} kHz: the set's tuner may match it, "
-                            f"but without a match {mismatch[i]:.1f} dB of the power is lost"
-                            + (f"; matched at the set, the feedline loses {with_swr[i]:.1f} dB "
-                               f"(against {matched_db[i]:.1f} dB matched)"
-                               if d.feed_length_m > 0 else "")),
-            })
-        if d.kind == "whip" and system_loss[i] > WHIP_LOSS_WARN_DB:
-            warnings.append({
-                "code": "whip-low-efficiency",
-                "severity": "warning",
-                "freq_khz": fk,
-                "system_loss_db": float(system_loss[i]),
-                "message": (f"the whip turns only {100 * 10 ** (-system_loss[i] / 10):.0f} % "
-                            f"of the power into radiation at {fk:g} kHz (ground system "
-                            f"{ground_loss[i]:.1f} dB, tuner {tuner_loss[i]:.1f} dB)"),
-            })
+    high = [i for i in range(len(freqs)) if chain.usable[i] and system_loss[i] > LOSS_WARN_DB]
+    if high:
+        worst = max(high, key=lambda i: system_loss[i])
+        at = ", ".join(f"{freqs[i]:g}" for i in high)
+        warnings.append({
+            "code": "loss-high",
+            "severity": "warning",
+            "freqs_khz": [freqs[i] for i in high],
+            "system_loss_db": [float(system_loss[i]) for i in high],
+            "message": (f"More than {LOSS_WARN_DB:g} dB of the set's power is lost before this antenna at "
+                        f"{at} kHz. " + explain_loss(chain, worst, freq_khz=freqs[worst], kind=d.kind,
+                                                      matching=d.matching, z_ant_ohm=complex(z[worst]),
+                                                      ground_ohm=ground_ohm, coil_q=d.matching_coil_q,
+                                                      ratio=lay.ratio)),
+        })
 
     reflector = None
     if d.kind == "dipole-reflector":
@@ -588,8 +601,7 @@ def _analyse_uncached(design: AntennaDesign, ground: GroundSpec,
     whip_ground = None
     if d.kind == "whip":
         whip_ground = {
-            "ground_loss_ohm": gnd.ground_loss_ohm(ground.soil, ground.system),
-            "tuner_q": gnd.TUNER_Q,
+            "ground_loss_ohm": ground_ohm,
             "model": gnd.GROUND_LOSS_MODEL,
         }
 
@@ -610,22 +622,30 @@ def _analyse_uncached(design: AntennaDesign, ground: GroundSpec,
         "wires": len(model.wires),
         "wire_loss": "copper, 5.8e7 S/m",
         "pattern_grid": "elevation 0-90 deg step 1, azimuth 0-90 deg step 15 (symmetric)",
+        "frequencies_solved": len(solve_set),
+        "band_grid": (f"{len(band)} log-spaced points {band[0]:g}-{band[-1]:g} kHz; between solved "
+                      "frequencies R and X are interpolated in log f and losses computed at the exact frequency"),
         "trim_solves": lay.trim.solves if lay.trim is not None else 0,
     }
 
     return AntennaAnalysis(
         design=d, ground=ground, freqs_khz=freqs, reference_freq_khz=ref,
-        height_wavelengths=h_wl, cut=_cut_sheet(d, lay),
+        height_wavelengths=h_wl, cut=cut_sheet(d, lay), transformer_ratio=lay.ratio, ground_ohm=ground_ohm,
         impedance_ohm=_readonly(z), swr=_readonly(swr), swr_class=classes,
         mismatch_loss_db=_readonly(mismatch), feedline_loss_db=_readonly(matched_db),
-        feedline_loss_with_swr_db=_readonly(with_swr),
-        ground_loss_db=None if ground_loss is None else _readonly(ground_loss),
-        tuner_loss_db=None if tuner_loss is None else _readonly(tuner_loss),
-        system_loss_db=_readonly(system_loss),
+        losses=_readonly_chain(chain), system_loss_db=_readonly(system_loss),
         peak_gain_dbi=_readonly(summ["peak_gain_dbi"][idx]),
         zenith_gain_dbi=_readonly(summ["zenith_gain_dbi"][idx]),
         fraction_above_60deg=_readonly(summ["fraction_above_60deg"][idx]),
         gain_table_dbi=_readonly(table), system_gain_table_dbi=_readonly(sys_table),
+        solved_khz=_readonly(np.asarray(solve_set, float)), solved_impedance_ohm=_readonly(z_all),
+        solved_trusted=_readonly(trusted),
+        solved_gain_table_dbi=_readonly(summ["table_dbi"]),
+        grid_khz=_readonly(np.asarray(band, float)), grid_losses=_readonly_chain(grid_chain),
+        grid_gain_table_dbi=_readonly(grid_table),
+        grid_system_gain_table_dbi=_readonly(grid_table - grid_chain.total_db[:, None]),
+        grid_peak_gain_dbi=_readonly(summ["peak_gain_dbi"][gidx]),
+        grid_zenith_gain_dbi=_readonly(summ["zenith_gain_dbi"][gidx]),
         pattern=pat, nvis_window=nvis, reflector=reflector, whip_ground=whip_ground,
         warnings=tuple(warnings), assumptions=lay.assumptions, solver=solver_info,
     )
@@ -641,7 +661,7 @@ def _check(design, ground, freqs_khz) -> tuple[float, ...]:
 
 def analyse_antenna(design: AntennaDesign, ground: GroundSpec,
                     freqs_khz: tuple[float, ...]) -> AntennaAnalysis:
-    """Cut sheet, SWR, losses and elevation pattern of one antenna on its channels.
+    """Cut sheet, losses and elevation pattern of one antenna on its channels and across the band.
 
     Parameters
     ----------
@@ -677,41 +697,123 @@ def analyse_antenna(design: AntennaDesign, ground: GroundSpec,
 
 
 def _worker(job):
-    return _analyse_uncached(*job)
+    """Solve one job; errors come back as values, so that they cross the process boundary intact."""
+    try:
+        return _analyse_uncached(*job)
+    except (AntennaInputError, AntennaSolveError) as exc:
+        return exc
+    except Exception as exc:  # anything else NEC or numpy raises: a picklable error naming it
+        return AntennaSolveError(f"the antenna solver failed ({type(exc).__name__}: {exc})")
+
+
+def _describe(job) -> str:
+    d, g, _ = job
+    what = f"{d.kind} cut for {d.design_khz:g} kHz" if d.design_khz is not None else d.kind
+    return f"a {what} at {d.height_m:g} m over {g.soil} ground"
+
+
+def _solve_alone(job):
+    """One job in a fresh process of its own, so that a crash is pinned on it."""
+    try:
+        with ProcessPoolExecutor(max_workers=1) as pool:
+            return pool.submit(_worker, job).result()
+    except BrokenProcessPool:
+        return AntennaSolveError(f"the NEC solver process stopped while solving {_describe(job)} "
+                                 "(it crashed or ran out of memory)")
+
+
+def _solve_in_processes(todo: list, n: int) -> dict:
+    """Solve jobs in ``n`` worker processes; a job whose worker dies is re-solved alone to find the culprit."""
+    out: dict = {}
+    try:
+        with ProcessPoolExecutor(max_workers=n) as pool:
+            futures = [(j, pool.submit(_worker, j)) for j in todo]
+            for j, fut in futures:
+                try:
+                    out[j] = fut.result()
+                except BrokenProcessPool:
+                    pass
+    except BrokenProcessPool:
+        pass
+    for j in todo:
+        if j not in out:
+            out[j] = _solve_alone(j)
+    return out
 
 
 def analyse_antennas(jobs: Iterable[tuple[AntennaDesign, GroundSpec, Sequence[float]]],
-                     workers: int | None = None) -> list[AntennaAnalysis]:
+                     workers: int | None = None, *, isolate: bool = False,
+                     return_exceptions: bool = False) -> list:
     """Analyse many (design, ground, freqs_khz) jobs; same results as
     :func:`analyse_antenna`, in the order given.
 
     Distinct uncached jobs are solved once each, in ``workers`` processes
-    (default: the CPU count; 1 solves in this process).  Results enter the
-    same cache.
+    (default: the CPU count; 1 solves in this process unless ``isolate``).
+    Results enter the same cache.  A worker process that dies (a crash in
+    NEC) does not take the others with it: the jobs it left are re-solved
+    one by one in fresh processes, and the one that crashes again gets an
+    :class:`AntennaSolveError` naming it.
+
+    Parameters
+    ----------
+    isolate : bool
+        Solve in worker processes even when one would do, so that a crash
+        in NEC can never end the calling process.
+    return_exceptions : bool
+        Give a job that fails its AntennaInputError or AntennaSolveError in
+        its place in the result list, instead of raising the first.
     """
-    jobs = [(d, g, _check(d, g, f)) for d, g, f in jobs]
+    checked: list = []
+    for d, g, f in jobs:
+        try:
+            checked.append((d, g, _check(d, g, f)))
+        except AntennaInputError as exc:
+            if not return_exceptions:
+                raise
+            checked.append(exc)
+    valid = [j for j in checked if not isinstance(j, Exception)]
     with _LOCK:
-        todo = sorted({j for j in jobs if j not in _ANALYSIS_CACHE}, key=repr)
+        todo = sorted({j for j in valid if j not in _ANALYSIS_CACHE}, key=repr)
     n = workers if workers is not None else (os.cpu_count() or 1)
     n = max(1, min(n, len(todo)))
-    if n > 1:
-        with ProcessPoolExecutor(max_workers=n) as pool:
-            results = list(pool.map(_worker, todo))
-        with _LOCK:
-            for j, r in zip(todo, results):
+    if todo and (n > 1 or isolate):
+        solved = _solve_in_processes(todo, n)
+    else:
+        solved = {j: _worker(j) for j in todo}
+    failed: dict = {}
+    with _LOCK:
+        for j in todo:
+            r = solved[j]
+            if isinstance(r, Exception):
+                failed[j] = r
+            else:
                 _STATS["misses"] += 1
                 _ANALYSIS_CACHE.setdefault(j, r)
-    return [analyse_antenna(*j) for j in jobs]
+    out: list = []
+    for j in checked:
+        if isinstance(j, Exception):
+            out.append(j)
+        elif j in failed:
+            if not return_exceptions:
+                raise failed[j]
+            out.append(failed[j])
+        else:
+            out.append(analyse_antenna(*j))
+    return out
 
 
 def cache_info() -> dict[str, int]:
     """Hits, misses and size of the analysis cache (and the trim cache size)."""
+    from .layout import _TRIM_CACHE
+
     with _LOCK:
         return {**_STATS, "size": len(_ANALYSIS_CACHE), "trimmed": len(_TRIM_CACHE)}
 
 
 def clear_cache() -> None:
     """Forget every cached analysis and trim."""
+    from .layout import _TRIM_CACHE
+
     with _LOCK:
         _ANALYSIS_CACHE.clear()
         _TRIM_CACHE.clear()

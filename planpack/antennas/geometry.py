@@ -5,9 +5,10 @@ the lengths already decided (trimmed or given) and only lay out wires; they
 never solve.
 
 Segmentation follows the usual NEC-2 guidance of segments no longer than
-about 0.05 wavelength (NEC-2 user's guide, part III): at most 1/40 of the
-design wavelength and at most 1/20 of the wavelength of the highest
-frequency solved.
+about 0.05 wavelength, and never longer than 0.1 wavelength (NEC-2 user's
+guide, part III): at most 1/40 of the design wavelength, at most 1/20 of
+the wavelength of the highest assigned channel, and at most 1/10 of the
+wavelength at the top of the band grid.
 """
 
 from __future__ import annotations
@@ -60,16 +61,22 @@ def wavelength_m(freq_khz: float) -> float:
     return C_M_PER_S / (freq_khz * 1e3)
 
 
-def segment_length_m(design_khz: float | None, top_khz: float | None = None) -> float:
+def segment_length_m(design_khz: float | None, top_khz: float | None = None,
+                     band_top_khz: float | None = None) -> float:
     """Target segment length [m] (see module docstring).
 
     At most 1/40 of the design wavelength, at most 1/20 of the wavelength
-    at ``top_khz``, the highest frequency solved (30 MHz when not given),
-    and at most 1 m.  Trimming passes the design frequency as ``top_khz``,
-    so the cut length does not depend on the channels.
+    at ``top_khz``, the highest assigned frequency solved (30 MHz when not
+    given), at most 1/10 of the wavelength at ``band_top_khz``, the top of
+    the band grid solved beside the channels (NEC-2's limit; the grid's
+    upper end carries no NVIS net), and at most 1 m.  Trimming passes the
+    design frequency as ``top_khz``, so the cut length does not depend on
+    the channels.
     """
     seg = min(wavelength_m(top_khz if top_khz is not None else 30_000.0) / 20.0,
               MAX_SEGMENT_M)
+    if band_top_khz is not None:
+        seg = min(seg, wavelength_m(band_top_khz) / 10.0)
     if design_khz is not None:
         seg = min(seg, wavelength_m(design_khz) / 40.0)
     return seg

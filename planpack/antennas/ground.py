@@ -22,8 +22,6 @@ References
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 
 # ITU-R P.527 HF constants [1]: soil -> (relative permittivity, conductivity [S/m]).
@@ -51,22 +49,17 @@ GROUND_LOSS_OHM: dict[str, float] = {
 }
 SEA_GROUND_LOSS_OHM = 2.0
 
-# Quality factor of the set's tuner (or a base loading coil) that cancels the
-# whip's reactance; from memory, a typical figure for a tuner inductor at HF.
-TUNER_Q = 100.0
-
 GROUND_LOSS_MODEL = (
-    "Short-vertical efficiency model: efficiency = R / (R + R_ground + |X| / Q), "
-    "where R + jX is the NEC feed impedance of the whip over the P.527 ground, "
-    "R_ground a series ground-system loss resistance (none 60, rods 35, "
-    "counterpoise 15, radials 8 ohm; 2 ohm on sea water; from memory, of the "
-    "order measured by Brown, Lewis and Epstein, Proc. IRE 25(6), 1937, and "
-    "Sevick, QST April 1978) and |X|/Q the loss of the tuner that cancels the "
-    "reactance (Q = 100, from memory).  NEC solves the whip's currents as if "
-    "its base were bonded to a perfect ground, and its far field is weighted "
-    "by the P.527 soil's reflection for vertical polarisation; the loss in the soil near "
-    "the base is the ground-system term, because NEC-2 cannot model stakes "
-    "or radials in the soil."
+    "Short-vertical efficiency model: the power the whip accepts at its base divides between R, the "
+    "NEC feed resistance of the whip over the P.527 ground (radiation resistance and copper loss), "
+    "and R_ground, a series ground-system loss resistance (none 60, rods 35, counterpoise 15, radials "
+    "8 ohm; 2 ohm on sea water; from memory, of the order measured by Brown, Lewis and Epstein, "
+    "Proc. IRE 25(6), 1937, and Sevick, QST April 1978): the ground loss is 10 log10((R + R_ground) / R) "
+    "dB.  The coupler or tuner that matches R + R_ground + jX is a lossy L-network (see the matching "
+    "model).  NEC solves the whip's currents as if its base were bonded to a perfect ground, and its "
+    "far field is weighted by the P.527 soil's reflection for vertical polarisation; the loss in the "
+    "soil near the base is the ground-system term, because NEC-2 cannot model stakes or radials in the "
+    "soil."
 )
 
 
@@ -101,28 +94,6 @@ def ground_loss_ohm(soil: str, system: str) -> float:
     if soil == "sea":
         return SEA_GROUND_LOSS_OHM
     return GROUND_LOSS_OHM[system]
-
-
-def whip_efficiency(z_ohm: complex, r_ground_ohm: float, q: float = TUNER_Q) -> float:
-    """Fraction of the set's power that reaches the whip's radiation [1].
-
-    Parameters
-    ----------
-    z_ohm : complex
-        NEC feed impedance of the whip [ohm].
-    r_ground_ohm : float
-        Series ground-system loss [ohm].
-    q : float
-        Quality factor of the tuner inductance or capacitance [1].
-    """
-    r = max(z_ohm.real, 1e-6)
-    r_tuner = abs(z_ohm.imag) / q
-    return r / (r + r_ground_ohm + r_tuner)
-
-
-def ratio_db(x: float) -> float:
-    """Loss of a power fraction x as positive dB."""
-    return -10.0 * math.log10(max(x, 1e-30))
 
 
 def vertical_reflection(elevation_rad, eps_r: float, sigma_s_per_m: float,

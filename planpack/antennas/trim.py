@@ -55,7 +55,7 @@ def trim_to_resonance(build: Callable[[float], Model], soil: str, freq_khz: floa
     def reactance(length_m: float) -> float:
         nonlocal count
         count += 1
-        z, _ = solve(build(length_m), soil, (freq_khz,), pattern=False, 
+        z, _ = solve(build(length_m), soil, (freq_khz,), pattern=False,
                      bonded_vertical=bonded_vertical)
         return float(z[0].imag)
 
@@ -69,10 +69,13 @@ def trim_to_resonance(build: Callable[[float], Model], soil: str, freq_khz: floa
         hi = min(hi * 1.1, cap)
         x_hi = reactance(hi)
     if not (x_lo <= 0 <= x_hi):
-        z, _ = solve(build(start_m), soil, (freq_khz,), pattern=False, 
+        # Still short at the longest length the geometry allows: that length is the nearest
+        # to resonance; otherwise keep the rule of thumb.
+        best = hi if (x_hi < 0 and hi >= cap - 1e-9) else min(start_m, cap)
+        z, _ = solve(build(best), soil, (freq_khz,), pattern=False,
                      bonded_vertical=bonded_vertical)
-        return Trim(start_m, False, complex(z[0]), count + 1)
+        return Trim(float(best), False, complex(z[0]), count + 1)
     length = brentq(reactance, lo, hi, xtol=TOLERANCE_M)
-    z, _ = solve(build(length), soil, (freq_khz,), pattern=False, 
-                     bonded_vertical=bonded_vertical)
+    z, _ = solve(build(length), soil, (freq_khz,), pattern=False,
+                 bonded_vertical=bonded_vertical)
     return Trim(float(length), True, complex(z[0]), count + 1)

@@ -68,7 +68,11 @@ CODES: dict[str, str] = {
     "clock-change": "the UTC offset of the net's time zone changes inside the validity period",
     # analysis results reported by check (filled in by later passes)
     "channel-gap": "hours where no assigned channel serves a link",
-    "swr-high": "an antenna's SWR above 3:1 on an assigned channel",
+    "antenna-loss": "much of the set's power lost before the antenna a station rigs on a channel (matching, feedline or ground)",
+    "antenna-geometry": "an antenna that cannot be hung as written (wire ends below the safe minimum or the ground)",
+    "antenna-ends-low": "antenna wire ends below the 2 m safe minimum height",
+    "antenna-solve-failed": "the NEC solver failed, or its process stopped, on an antenna",
+    "antenna-unreliable": "NEC gives a non-physical result for an antenna on an assigned channel",
     "nvis-height": "a dipole hung outside the NVIS height window",
     "nvis-whip": "a whip used alone on an NVIS net",
     "wasted-channel": "a channel that serves no link at any hour",

@@ -64,6 +64,7 @@ class Feedline:
     z0_ohm: float
     length_m: float
     loss_db_per_100m_at_10mhz: float
+    velocity_factor: float = 0.66  # solid polyethylene coax (common practice, no source)
 
 
 @dataclass(frozen=True)
@@ -79,7 +80,8 @@ class Antenna:
     resistor_ohm: float | None
     transformer_ratio: float | None
     feedline: Feedline | None
-    matching: str = "set-tuner"  # how the set is matched to a wire antenna (whips: the set's tuner at the base)
+    matching: str = "set-tuner"  # none | set-tuner | wide-tuner | feedpoint-coupler (a whip's default: feedpoint-coupler)
+    matching_coil_q: float = 100.0  # unloaded Q of the matching network's coil
 
 
 @dataclass(frozen=True)

@@ -21,7 +21,7 @@ NOISE_CATEGORIES = ("city", "residential", "rural", "quiet-rural")
 ANTENNA_KINDS = ("dipole", "inverted-v", "dipole-reflector", "folded-terminated", "whip")
 ROLES = ("control", "member")
 CARD_SIZES = ("3.5x5in", "a6", "3x5in")
-MATCHINGS = ("set-tuner", "wide-tuner", "feedpoint-coupler")
+MATCHINGS = ("none", "set-tuner", "wide-tuner", "feedpoint-coupler")
 
 # ALE addresses are checked in the semantic pass, where the message can cite the standard.
 ADDRESS = Text(max_len=40, description="ALE address (MIL-STD-188-141 appendix A): A-Z and 0-9, at most 15 characters")
@@ -93,6 +93,8 @@ FEEDLINE = Record(fields={
     "z0_ohm": Field(Number(10, 1000, unit="ohm"), required=False, default=50.0),
     "length_m": Field(Number(0, 1000, unit="m")),
     "loss_db_per_100m_at_10mhz": Field(Number(0, 50, unit="dB/100 m"), required=False, default=0.0),
+    "velocity_factor": Field(Number(0.3, 1.0), required=False, default=0.66,
+                             doc="velocity factor of the line (0.66 for solid polyethylene coax, 0.8 for foam)"),
 })
 
 ANTENNA = Record(fields={
@@ -105,21 +107,25 @@ ANTENNA = Record(fields={
     "spacing_m": Field(Number(0.05, 5, unit="m"), required=False, doc="folded-terminated: spacing of the two wires"),
     "resistor_ohm": Field(Number(1, 10_000, unit="ohm"), required=False, doc="folded-terminated: terminating resistor"),
     "transformer_ratio": Field(Number(1, 64), required=False, doc="impedance ratio of the balun or transformer (1 for a 1:1 balun)"),
-    "matching": Field(Choice(MATCHINGS), required=False, default="set-tuner",
-                      doc="how the set is matched to the antenna: the set's own tuner (up to 3:1), a wide-range tuner at the set "
-                          "(up to 10:1) or an automatic coupler at the feed point (up to 30:1)"),
+    "matching": Field(Choice(MATCHINGS), required=False,
+                      doc="how the set is matched to the antenna: none, the set's built-in tuner (set-tuner, up to about 3:1), "
+                          "a wide-range tuner at the set (wide-tuner, up to about 10:1) or an automatic coupler at the feed point "
+                          "or a whip's base (feedpoint-coupler); beyond its range the set reduces its power. Default: "
+                          "feedpoint-coupler for a whip, set-tuner for the other kinds"),
+    "matching_coil_q": Field(Number(10, 1000), required=False, default=100.0,
+                             doc="unloaded Q of the matching network's coil (HF tuner and coupler coils are about 100-200)"),
     "feedline": Field(FEEDLINE, required=False),
 })
 
 #: Keys each kind needs and keys that apply to it (beyond the common ones).
 KIND_KEYS = {
-    "dipole": {"needs": ("design_khz",), "allows": ("transformer_ratio", "matching")},
-    "inverted-v": {"needs": ("design_khz", "apex_deg"), "allows": ("transformer_ratio", "matching")},
-    "dipole-reflector": {"needs": ("design_khz",), "allows": ("transformer_ratio", "matching")},
-    "folded-terminated": {"needs": (), "allows": ("length_m", "spacing_m", "resistor_ohm", "transformer_ratio", "matching")},
+    "dipole": {"needs": ("design_khz",), "allows": ("transformer_ratio",)},
+    "inverted-v": {"needs": ("design_khz", "apex_deg"), "allows": ("transformer_ratio",)},
+    "dipole-reflector": {"needs": ("design_khz",), "allows": ("transformer_ratio",)},
+    "folded-terminated": {"needs": (), "allows": ("length_m", "spacing_m", "resistor_ohm", "transformer_ratio")},
     "whip": {"needs": ("length_m",), "allows": ("design_khz",)},
 }
-COMMON_ANTENNA_KEYS = ("kind", "height_m", "wire_mm", "feedline")
+COMMON_ANTENNA_KEYS = ("kind", "height_m", "wire_mm", "feedline", "matching", "matching_coil_q")
 
 MODE = Record(fields={
     "snr_db": Field(Number(-30, 60, unit="dB"), doc="required SNR in the bandwidth"),

@@ -278,8 +278,11 @@ def build(data: dict, source: str, sha256: str, positions: dict | None = None) -
             apex_deg=_f(a.get("apex_deg")), wire_mm=float(a["wire_mm"]), length_m=_f(a.get("length_m")),
             spacing_m=_f(a.get("spacing_m")), resistor_ohm=_f(a.get("resistor_ohm")),
             transformer_ratio=_f(a.get("transformer_ratio")),
-            feedline=None if fl is None else Feedline(float(fl["z0_ohm"]), float(fl["length_m"]), float(fl["loss_db_per_100m_at_10mhz"])),
-            matching=a["matching"],
+            feedline=None if fl is None else Feedline(float(fl["z0_ohm"]), float(fl["length_m"]), float(fl["loss_db_per_100m_at_10mhz"]),
+                                                      float(fl["velocity_factor"])),
+            # a whip is used with a coupler at its base (or a manpack set's own, also at the base)
+            matching=a.get("matching") or ("feedpoint-coupler" if a["kind"] == "whip" else "set-tuner"),
+            matching_coil_q=float(a["matching_coil_q"]),
         ))
     modes = dict(BUILTIN_MODES)
     for mid, m in data.get("modes", {}).items():

@@ -133,14 +133,15 @@ antennas:
     # The frequency to cut the wire for [kHz]; the cut sheet gives lengths in metres and feet.
     design_khz: 3400
     # Apex height [m]. The leg ends must stay at least 2 m above ground
-    # (out of reach: the ends carry high RF voltage).
-    height_m: 12
+    # (out of reach: the ends carry high RF voltage); check refuses it otherwise.
+    height_m: 13
     # The angle between the two legs [deg].
     apex_deg: 120
     # Conductor diameter [mm] (default 2).
     wire_mm: 1.5
-    # How the set is matched to the wire: set-tuner (up to 3:1), wide-tuner (up to 10:1)
-    # or feedpoint-coupler (an automatic coupler at the feed point, up to 30:1).
+    # How the set is matched to the wire: none, set-tuner (the set's own, up to about 3:1),
+    # wide-tuner (up to about 10:1) or feedpoint-coupler (an automatic coupler at the feed
+    # point, or a whip's base). Beyond its range the set turns its power down.
     matching: feedpoint-coupler
     # For short (NVIS) links hang it low, about 0.1 to 0.25 wavelength.
     feedline: {{z0_ohm: 50, length_m: 10, loss_db_per_100m_at_10mhz: 6.0}}

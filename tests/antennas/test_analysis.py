@@ -5,9 +5,14 @@ import json
 import numpy as np
 import pytest
 
-from planpack.antennas import (AntennaDesign, AntennaInputError, GroundSpec, analyse_antenna,
-                               analyse_antennas, cache_info, clear_cache,
-                               isotropic_default_gain_dbi, station_exposure)
+import os
+import pickle
+
+from planpack.antennas import (AntennaDesign, AntennaGeometryError, AntennaInputError, AntennaSolveError,
+                               GroundSpec, analyse_antenna, analyse_antennas, analysis, cache_info,
+                               clear_cache, isotropic_default_gain_dbi, station_exposure)
+from planpack.antennas.analysis import physical_mask
+from planpack.bandgrid import GRID_KHZ
 
 GROUND = GroundSpec("medium-dry", "rods")
 CHANNELS = (3500.0, 5000.0, 7200.0)
@@ -30,7 +35,7 @@ def test_cache_hit_returns_the_same_read_only_result():
 
 
 def test_batch_in_processes_matches_serial():
-    d1 = AntennaDesign("inverted-v", 7000.0, 9.0, apex_deg=110.0)
+    d1 = AntennaDesign("inverted-v", 7000.0, 9.0, apex_deg=120.0)
     d2 = AntennaDesign("whip", None, 0.5, length_m=5.0)
     clear_cache()
     serial = [analyse_antenna(d, GROUND, CHANNELS).to_dict() for d in (d1, d2)]
@@ -47,7 +52,7 @@ def test_to_dict_contract_and_json():
     d = a.to_dict(["C1", "C2", "C3"])
     json.dumps(d, allow_nan=False)
     for key in ("kind", "cut", "channels", "pattern", "height_wavelengths", "nvis_window",
-                "warnings"):
+                "warnings", "matching", "band"):
         assert key in d
     for key in ("total_m", "leg_m", "rule_of_thumb_total_m", "reflector_m",
                 "reflector_below_m"):
@@ -55,26 +60,39 @@ def test_to_dict_contract_and_json():
     assert d["cut"]["reflector_m"] is None and d["cut"]["reflector_below_m"] is None
     ch = d["channels"][1]
     assert ch["channel"] == "C2" and ch["freq_khz"] == 5000.0
-    assert set(ch) >= {"impedance_ohm", "swr", "swr_class", "mismatch_loss_db",
-                       "feedline_loss_db", "pattern"}
+    assert set(ch) >= {"impedance_ohm", "swr", "swr_text", "swr_class", "mismatch_loss_db",
+                       "feedline_loss_db", "feedline_loss_with_swr_db", "foldback_db", "set_mismatch_db",
+                       "network_loss_db", "ground_loss_db", "system_loss_db", "swr_at_set", "matched",
+                       "usable", "loss_note", "pattern"}
     assert len(ch["impedance_ohm"]) == 2 and len(ch["elevation_gain_dbi"]) == 91
     assert set(d["pattern"]) >= {"peak_gain_dbi", "zenith_gain_dbi", "fraction_above_60deg"}
-    # Resonant on its design channel, far off on the others.
+    # Resonant on its design channel; 3:1 and worse on the others, beyond the set's tuner's range.
     assert ch["swr_class"] == "fine"
-    assert d["channels"][0]["swr_class"] == "poor"
+    assert d["channels"][0]["swr_class"] == "poor" and not d["channels"][0]["matched"]
     # 4.5 dB / 100 m at 10 MHz, 20 m, sqrt(5/10): 0.636 dB.
     assert ch["feedline_loss_db"] == pytest.approx(0.64, abs=0.01)
-    codes = [(w["code"], w.get("channel")) for w in d["warnings"]]
-    assert ("swr-above-3", "C1") in codes and ("swr-above-3", "C3") in codes
+    # the breakdown adds up to the total
+    for c in d["channels"]:
+        parts = sum(c[k] for k in ("foldback_db", "set_mismatch_db", "network_loss_db",
+                                   "feedline_loss_with_swr_db", "ground_loss_db"))
+        assert parts == pytest.approx(c["system_loss_db"], abs=0.03)
+        assert c["loss_note"].endswith(".") and f"{c['freq_khz']:g} kHz" in c["loss_note"]
+    codes = [(w["code"], w.get("channels")) for w in d["warnings"]]
+    assert ("loss-high", ["C1", "C3"]) in codes
     assert d["nvis_window"]["inside"] is True   # 10 m at 5 MHz is 0.167 wavelength
+    band = d["band"]
+    assert len(band["freq_khz"]) == len(GRID_KHZ) == len(band["system_loss_db"]) == len(band["swr"])
+    assert d["matching"]["kind"] == "set-tuner" and d["matching"]["max_swr"] == 3.0
 
 
 def test_system_gain_subtracts_the_losses():
     a = analyse_antenna(AntennaDesign("dipole", 5000.0, 10.0), GROUND, CHANNELS)
     np.testing.assert_allclose(a.system_gain_table_dbi,
                                a.gain_table_dbi - a.system_loss_db[:, None])
-    np.testing.assert_allclose(a.system_loss_db, a.mismatch_loss_db + a.feedline_loss_db)
+    np.testing.assert_allclose(a.grid_system_gain_table_dbi,
+                               a.grid_gain_table_dbi - a.grid_losses.total_db[:, None])
     assert a.gain_table_dbi.shape == (3, 91)
+    assert a.grid_gain_table_dbi.shape == (len(GRID_KHZ), 91)
 
 
 def test_a_badly_cut_antenna_shows_in_the_link_gain():
@@ -92,17 +110,73 @@ def test_hung_too_high_is_flagged():
     assert "outside-nvis-window" in [w["code"] for w in a.warnings]
 
 
-def test_inverted_v_end_height_and_low_end_warning():
-    a = analyse_antenna(AntennaDesign("inverted-v", 5000.0, 9.0, apex_deg=110.0), GROUND,
-                        (5000.0,))
-    c = a.cut
-    drop = (c["total_m"] - 0.3) / 2 * np.cos(np.radians(55.0))
-    assert c["end_height_m"] == pytest.approx(9.0 - drop, abs=0.01)
-    assert c["end_height_m"] < 2.0
-    assert "inverted-v-ends-low" in [w["code"] for w in a.warnings]
-    with pytest.raises(AntennaInputError, match="AntennaDesign.height_m"):
-        analyse_antenna(AntennaDesign("inverted-v", 3500.0, 8.0, apex_deg=90.0), GROUND,
-                        (3500.0,))
+def test_inverted_v_ends_stay_at_the_minimum_whatever_the_soil():
+    # Ends at 2.05 m by the rule of thumb: trimming may not take them lower, over any soil.
+    for soil in ("wet", "medium-dry", "sea", "very-dry"):
+        a = analyse_antenna(AntennaDesign("inverted-v", 5000.0, 10.3, apex_deg=110.0), GroundSpec(soil), (5000.0,))
+        c = a.cut
+        drop = (c["total_m"] - 0.3) / 2 * np.cos(np.radians(55.0))
+        assert c["end_height_m"] == pytest.approx(10.3 - drop, abs=0.01)
+        assert c["end_height_m"] >= 2.0 - 1e-6, soil
+
+
+@pytest.mark.parametrize("height, apex", [(9.0, 110.0), (8.0, 90.0), (2.17, 170.0), (3.0, 120.0)])
+def test_inverted_v_below_the_minimum_is_refused_before_nec(height, apex):
+    # Issue 12: legs ending below 2 m (or below ground) are an error, decided from the design alone.
+    with pytest.raises(AntennaGeometryError) as err:
+        AntennaDesign("inverted-v", 3500.0 if height != 9.0 else 5000.0, height, apex_deg=apex)
+    assert err.value.field == "AntennaDesign.height_m"
+    text = str(err.value)
+    assert "raise the apex to at least" in text and text.endswith(".")
+
+
+def test_low_dipole_ends_are_a_warning():
+    a = analyse_antenna(AntennaDesign("dipole", 7000.0, 1.6), GroundSpec("medium-dry"), (7000.0,))
+    w = [w for w in a.warnings if w["code"] == "wire-ends-low"]
+    assert w and w[0]["end_height_m"] == pytest.approx(1.6)
+    assert w[0]["message"].endswith(".")
+
+
+def test_errors_survive_a_trip_through_a_worker_process():
+    for exc in (AntennaInputError("AntennaDesign.height_m", "a height", 3.0),
+                AntennaGeometryError("AntennaDesign.height_m", "It cannot be hung.", 3.0),
+                AntennaSolveError("NEC failed")):
+        back = pickle.loads(pickle.dumps(exc))
+        assert type(back) is type(exc) and str(back) == str(exc)
+
+
+def _crash_on_whips(design, ground, freqs):
+    if design.kind == "whip":
+        os._exit(3)  # a crash inside NEC: the process dies with no exception
+    return _REAL_ANALYSE(design, ground, freqs)
+
+
+_REAL_ANALYSE = analysis._analyse_uncached
+
+
+def test_a_crashing_worker_is_pinned_on_its_antenna(monkeypatch):
+    # Worker processes are forked from this one, so the patched solver is theirs too.
+    monkeypatch.setattr(analysis, "_analyse_uncached", _crash_on_whips)
+    clear_cache()
+    whip = AntennaDesign("whip", None, 0.5, length_m=4.5)
+    dip = AntennaDesign("dipole", 5100.0, 10.0)
+    jobs = [(dip, GROUND, (5100.0,)), (whip, GROUND, (5100.0,)), (dip, GroundSpec("wet"), (5100.0,))]
+    out = analyse_antennas(jobs, workers=2, return_exceptions=True)
+    assert isinstance(out[1], AntennaSolveError) and "whip" in str(out[1]) and "stopped" in str(out[1])
+    assert out[0].kind == "dipole" and out[2].ground.soil == "wet"
+    with pytest.raises(AntennaSolveError):
+        analyse_antennas(jobs[1:2], isolate=True)
+
+
+def test_physical_mask_drops_nec_failures_and_their_edges():
+    r = np.array([10.0, 10.5, 11.0, 2.0, -20.0, -25.0, 1.5, 13.0, 13.5, 14.0])
+    ok = physical_mask(r + 1j)
+    assert list(np.flatnonzero(~ok)) == [3, 4, 5, 6]
+    smooth = np.geomspace(0.3, 3000.0, 41)  # a whip's or a dipole's R rising steeply is not a failure
+    assert physical_mask(smooth + 0j).all()
+    # nor are the wide swings of a long wire high in the band, resonances the grid samples coarsely
+    swings = np.array([3542.2, 445.2, 135.4, 142.3, 412.0, 2529.8, 723.1, 135.6, 308.9])
+    assert physical_mask(swings + 0j).all()
 
 
 def test_folded_terminated_is_broadband():
@@ -130,7 +204,8 @@ def test_whip_ground_system_and_pattern():
     assert np.all(rods.zenith_gain_dbi < -30.0)
     assert np.all(rods.fraction_above_60deg < 0.1)
     d2 = rods.to_dict()
-    assert d2["channels"][0]["matched_by_tuner"] is True
+    assert d2["matching"]["kind"] == "feedpoint-coupler"  # a whip's default: a coupler at its base
+    assert d2["channels"][0]["ground_loss_db"] > 0 and d2["channels"][0]["matched"] is True
     assert "Brown" in d2["ground"]["whip_loss_model"]["model"]
     assert d2["nvis_window"]["applies"] is False
 
@@ -172,11 +247,16 @@ def test_isotropic_defaults():
 
 
 def test_nonphysical_nec_solution_is_flagged_not_trusted():
-    """NEC-2 returns a negative feed resistance for an inverted-V whose ends come near the ground far below
-    its design frequency (a known limit of the thin-wire model near ground; from memory). It must be flagged."""
-    from planpack.antennas import AntennaDesign, GroundSpec, analyse_antenna
-
-    r = analyse_antenna(AntennaDesign("inverted-v", 5342, 9, apex_deg=110), GroundSpec("medium-dry", "none"), (3000.0, 5342.0))
+    """NEC-2 (nec2++) returns a negative feed resistance for an inverted-V whose ends come near the ground
+    well below its design frequency (measured: about -24 ohm at 2.94 MHz for this one; the thin-wire
+    Sommerfeld solution fails for wires low in wavelengths). It must be flagged and counted unusable."""
+    r = analyse_antenna(AntennaDesign("inverted-v", 5342, 9.62, apex_deg=110), GroundSpec("medium-dry", "none"),
+                        (2900.0, 5342.0))
     flagged = {w["freq_khz"] for w in r.warnings if w["code"] == "solver-unreliable"}
-    assert flagged == {3000.0}
+    assert flagged == {2900.0}
     assert r.system_gain_table_dbi[0].max() < -100  # counted as unusable in the link budget
+    d = r.to_dict(["A", "B"])
+    c0 = d["channels"][0]
+    assert c0["usable"] is False and c0["swr_text"] == "not solved" and c0["swr_class"] == "poor"
+    assert c0["swr"] == 50.0 and c0["system_loss_db"] == 200.0  # numbers stay numbers for the renderers
+    json.dumps(d, allow_nan=False)

@@ -66,7 +66,7 @@ def big_plan(stations: int = 500, channels: int = 200) -> str:
         lines.append(f"  - {{id: L{k + 1}, khz: {khz}, mode: usb" + (', note: "reserve"' if k % 10 == 0 else "") + "}")
     lines += [
         "antennas:",
-        "  night-wire:", "    kind: inverted-v", "    design_khz: 3500", "    height_m: 12", "    apex_deg: 120",
+        "  night-wire:", "    kind: inverted-v", "    design_khz: 3500", "    height_m: 13", "    apex_deg: 120",
         "    matching: feedpoint-coupler",
         "  day-wire:", "    kind: dipole", "    design_khz: 6500", "    height_m: 8", "    matching: feedpoint-coupler",
         "  broadband:", "    kind: folded-terminated", "    height_m: 12", "    length_m: 27", "    spacing_m: 0.9",
