@@ -129,7 +129,7 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
             "best": cid(h["best"]), "best_good_days": _r(h["best_good_days"] or 0.0, 3),
         } for h in nd["hours"]],
     }
-    data["gaps"] = [_gap(part, links, labels, ch_ids, out, plan) for g in gaps for part in _split_gap(g.to_dict())]
+    data["gaps"] = [_gap(g.to_dict(), links, labels, ch_ids, out, plan) for g in gaps]
 
     sd = scans.to_dict()
     data["scan_lists"] = [_scan_list(st, station_ids, ch_ids) for st in sd["stations"]]
@@ -253,32 +253,6 @@ def _weakest_links(good: np.ndarray, firsts: list[int | None]) -> list[int | Non
     return out
 
 
-def _split_gap(d: dict) -> list[dict]:
-    """Cut a gap into runs of hours that one frequency window serves: one request per run.
-
-    The scheduler groups hours by the reason of the gap; a night-and-day gap
-    has no single window, but a night window and a day window: the request a
-    planner sends is one channel for each.
-    """
-    if d["window_mhz"] is not None or d["reason"] == schedule.NOT_AUTHORISED or len(d["utc_hours"]) < 2:
-        return [d]
-    parts: list[dict] = []
-    cur: dict | None = None
-    for h, hour_links, w in zip(d["utc_hours"], d["links_by_hour"], d["window_by_hour_mhz"]):
-        joined = None
-        if cur is not None and w is not None and cur["window_mhz"] is not None:
-            lo, hi = max(cur["window_mhz"][0], w[0]), min(cur["window_mhz"][1], w[1])
-            joined = [lo, hi] if lo <= hi else None
-        if cur is not None and (joined is not None or (w is None and cur["window_mhz"] is None)):
-            cur["utc_hours"].append(h)
-            cur["links"] = sorted(set(cur["links"]) | set(hour_links))
-            cur["window_mhz"] = joined
-        else:
-            cur = {**d, "utc_hours": [h], "links": sorted(hour_links), "window_mhz": None if w is None else list(w)}
-            parts.append(cur)
-    return parts
-
-
 def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
     names = [link_id(*links[i]) for i in d["links"]]
     hours = d["utc_hours"]
@@ -286,23 +260,32 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
     utc = schedule.format_hours(hours)
     pretty = ", ".join(f"{a}–{b}" for a, b in (links[i] for i in d["links"]))
     win = d["window_mhz"]
-    inside = [] if win is None else [c for c in plan.channels if win[0] <= c.mhz <= win[1]]
+    target_pct = f"{round(100 * plan.net.target_good_days):d} %"
+    reaches = bool(d.get("window_reaches_target"))
+    inside = [] if win is None or not reaches else [c for c in plan.channels if win[0] <= c.mhz <= win[1]]
+    request = "`planpack request` finds the fewest frequencies to ask for"
     if d["reason"] == schedule.NOT_AUTHORISED:
-        names = [ch_ids[c] for c in d["channels_outside_hours"]]
-        extra = (f"; {_and(names)} would serve {'it' if len(names) == 1 else 'them'}, but "
-                 f"{'is' if len(names) == 1 else 'are'} not authorised then.")
+        chans = [ch_ids[c] for c in d["channels_outside_hours"]]
+        extra = (f"; {_and(chans)} would serve {'it' if len(chans) == 1 else 'them'}, but "
+                 f"{'is' if len(chans) == 1 else 'are'} not authorised then.")
     elif win is not None and inside:
         extra = (f"; {_and([c.id for c in inside])} lie{'s' if len(inside) == 1 else ''} in the window "
                  f"{win[0]:.2f}-{win[1]:.2f} MHz where a channel would serve, but fall{'s' if len(inside) == 1 else ''} "
                  f"short of the target there on too many days: more power, a better-matched antenna or a quieter "
                  f"receiving site would help more than another channel.")
+    elif win is not None and reaches:
+        extra = (f"; a channel between {win[0]:.2f} and {win[1]:.2f} MHz would serve them on at least "
+                 f"{target_pct} of days ({request}).")
     elif win is not None:
-        extra = (f"; a channel between {win[0]:.2f} and {win[1]:.2f} MHz would serve them; "
-                 f"`planpack request` finds the fewest frequencies to ask for.")
+        got = d.get("window_good_days") or 0.0
+        extra = (f"; no frequency reaches the target of {target_pct} of days for all of them: the best is a channel "
+                 f"between {win[0]:.2f} and {win[1]:.2f} MHz, working on about {int(100 * got)} % of days, so ask for "
+                 f"one there and add power, a better antenna or a quieter receiving site to reach the target "
+                 f"({request}).")
     else:
         why = d.get("no_window_reason") or "no single frequency would serve them all"
-        extra = (f"; {why}, so no one new channel closes this gap: request channels per link or split the net "
-                 f"(`planpack request` finds the fewest frequencies to ask for).")
+        extra = (f"; {why}, so no one new channel closes this gap: request channels per link, relay through "
+                 f"another station or split the net ({request}).")
     when = "at every hour of the day" if len(hours) == 24 else f"at {local} local ({utc} UTC)"
     message = f"no assigned channel serves {pretty} {when}{extra}"
     out.warning("channel-gap", "channels", f"channels: {message}", _At(*plan.where("channels")))
@@ -312,6 +295,8 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
         "reason": d["reason"], "net_window_mhz": None if d["net_window_mhz"] is None else [_r(x) for x in d["net_window_mhz"]],
         "channels_outside_hours": [ch_ids[c] for c in d["channels_outside_hours"]],
         "no_window_reason": d.get("no_window_reason"),
+        "window_good_days": _r(d.get("window_good_days"), 3),
+        "window_reaches_target": bool(d.get("window_reaches_target")),
         "message": message,
     }
 

@@ -77,8 +77,7 @@ def link_set(plan: Plan, setup, pairs: list[tuple[str, str]]) -> LinkSet:
     st = {s.id: s for s in stations}
     kinds = {a.id: a.kind for a in plan.antennas}
     gains = np.stack([setup.gain_table(s) for s in stations]).astype(np.float32)
-    grid_table = getattr(setup, "grid_gain_table", None)
-    grid = None if grid_table is None else np.stack([grid_table(s) for s in stations]).astype(np.float32)
+    grid = np.stack([setup.grid_gain_table(s) for s in stations]).astype(np.float32)
     tx = [st[a] for a, _ in pairs]
     rx = [st[b] for _, b in pairs]
     soils = [_land_ground(t, r) for t, r in zip(tx, rx)]

@@ -625,7 +625,7 @@ def test_results_are_valid_allowed_and_deterministic(data, n, c, penalty, target
 
 # --- windows on the band grid -------------------------------------------------------------
 
-from planpack.scheduling.windows import (MIN_WINDOW_MHZ, NO_WINDOW_NONE_REACHES,  # noqa: E402
+from planpack.scheduling.windows import (MIN_WINDOW_MHZ, NO_WINDOW_HARDLY, NO_WINDOW_NONE_REACHES,  # noqa: E402
                                          NO_WINDOW_TOO_NARROW, serving_window)
 
 GRID = np.geomspace(1.5, 30.0, 41)
@@ -648,7 +648,8 @@ def test_window_is_where_every_row_reaches_target_with_refined_edges():
 
 def test_no_window_says_why():
     rows = np.stack([_bump(2.0, 3.0), _bump(6.0, 9.0)])
-    assert serving_window(rows, GRID, 0.8) == (None, NO_WINDOW_NONE_REACHES)
+    assert serving_window(rows, GRID, 0.8, best_effort=False) == (None, NO_WINDOW_NONE_REACHES)
+    assert serving_window(rows, GRID, 0.8) == (None, NO_WINDOW_HARDLY)
     narrow = np.zeros_like(GRID)
     k = 10
     narrow[k] = 0.81  # only one grid point just reaches the target: its run is far under 100 kHz
@@ -668,3 +669,23 @@ def test_gaps_take_their_windows_from_the_grid():
     lo, hi = g.window_mhz
     assert 2.3 < lo < 2.5 and 4.1 < hi < 4.4 and g.no_window_reason is None
     assert g.net_window_mhz is not None
+
+
+def test_where_nothing_reaches_the_target_the_best_the_band_offers_is_named():
+    rows = np.stack([_bump(2.5, 4.0, peak=0.6), _bump(3.0, 5.0, peak=0.65)])
+    w, why = serving_window(rows, GRID, 0.8)
+    assert why == NO_WINDOW_NONE_REACHES and not w.reaches_target
+    assert 2.9 < w.low_mhz and w.high_mhz < 4.3 and abs(w.weakest_good_days - 0.6) < 1e-9
+
+
+def test_a_night_that_needs_two_channels_becomes_two_requests():
+    good = np.zeros((1, H, 1))
+    good[:, 8:18, 0] = 0.95                   # the only channel works by day
+    grid = np.zeros((1, H, GRID.size))
+    for h in range(H):                        # evening wants 3.5-5 MHz, the small hours 2-2.8 MHz
+        grid[0, h] = _bump(3.5, 5.0) if h in (18, 19, 20, 21, 22) else _bump(2.0, 2.8)
+    gaps = find_gaps(good, everywhere(1), np.full((1, H), 2.0), np.full((1, H), 5.0), target=0.8,
+                     grid_good_days=grid, grid_mhz=GRID)
+    assert [g.utc_hours for g in gaps] == [(18, 19, 20, 21, 22), (23, 0, 1, 2, 3, 4, 5, 6, 7)]
+    assert all(g.window_reaches_target for g in gaps)
+    assert gaps[0].window_mhz[0] > 3.3 and gaps[1].window_mhz[1] < 3.0

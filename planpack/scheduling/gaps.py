@@ -13,7 +13,7 @@ import numpy as np
 from . import _inputs
 from .hours import cyclic_runs
 from .net import net_channel_order
-from .windows import serving_window
+from .windows import Window, serving_window
 
 #: Default target: fraction of days the weakest link must work (plan default).
 DEFAULT_TARGET = 0.9
@@ -51,8 +51,12 @@ class Gap:
         (low, high) [MHz] for that hour's affected links, or None: when the
         whole-run window is empty these show where a request could be cut
         into a few parts.
-    no_window_reason : why ``window_mhz`` is None, in plain words (None when
-        there is a window).
+    no_window_reason : why ``window_mhz`` is None, or only a best-effort
+        window, in plain words (None when a window reaches the target).
+    window_good_days : the fraction of days [0-1] the window's best frequency
+        works on the weakest affected link-hour (None without a window).
+    window_reaches_target : False for a best-effort window: the frequencies
+        that come closest where none reaches the target.
     """
 
     links: tuple[int, ...]
@@ -65,6 +69,8 @@ class Gap:
     links_by_hour: tuple[tuple[int, ...], ...]
     window_by_hour_mhz: tuple[tuple[float, float] | None, ...]
     no_window_reason: str | None = None
+    window_good_days: float | None = None
+    window_reaches_target: bool = False
 
     def to_dict(self) -> dict:
         return {
@@ -79,6 +85,8 @@ class Gap:
             "window_by_hour_mhz": [None if w is None else list(w)
                                    for w in self.window_by_hour_mhz],
             "no_window_reason": self.no_window_reason,
+            "window_good_days": self.window_good_days,
+            "window_reaches_target": self.window_reaches_target,
         }
 
 
@@ -151,32 +159,84 @@ def find_gaps(good_days, allowed, luf_mhz, owf_mhz, *, target: float = DEFAULT_T
             raise _inputs.ScheduleInputError(
                 f"grid_good_days: expected shape ({n}, 24, {np.size(fg)}); got {grid.shape}")
 
-        def window(mask: np.ndarray, hours) -> tuple[tuple[float, float] | None, str | None]:
-            rows = grid[:, hours, :][mask]            # (pairs, g)
-            w, why = serving_window(rows, fg, goal)
-            return (None if w is None else (w.low_mhz, w.high_mhz)), why
+        def window(mask: np.ndarray, hours) -> tuple[Window | None, str | None]:
+            return serving_window(grid[:, hours, :][mask], fg, goal)
+
+        def weakest_at(hour: int, freq_mhz: float) -> float:
+            """The affected link-hour's weakest fraction of days at the grid frequency ``freq_mhz``."""
+            k = int(np.argmin(np.abs(fg - freq_mhz)))
+            rows = grid[affected[:, hour], hour, k]
+            return float(rows.min()) if rows.size else 1.0
     else:
-        def window(mask: np.ndarray, hours) -> tuple[tuple[float, float] | None, str | None]:
+        def window(mask: np.ndarray, hours) -> tuple[Window | None, str | None]:
             w = _window(luf[:, hours][mask], owf[:, hours][mask])
-            return w, None if w is not None else "the LUF lies above the OWF on some of them"
+            if w is None:
+                return None, "the LUF lies above the OWF on some of them"
+            return Window(w[0], w[1], float(np.sqrt(w[0] * w[1])), goal), None
+
+    def span(w: Window | None):
+        return None if w is None else (w.low_mhz, w.high_mhz)
 
     gaps = []
-    for reason, hours in cyclic_runs(reasons):
-        pairs = affected[:, hours]
-        links = tuple(int(i) for i in np.flatnonzero(pairs.any(axis=1)))
-        win, why = window(pairs, hours)
-        every = np.ones((n, len(hours)), dtype=bool)
-        gaps.append(Gap(
-            links=links, utc_hours=tuple(hours), reason=str(reason),
-            window_mhz=win, single_frequency=win is not None,
-            net_window_mhz=window(every, hours)[0],
-            channels_outside_hours=tuple(int(k) for k in np.flatnonzero(
-                outside[hours].any(axis=0))),
-            links_by_hour=tuple(tuple(int(i) for i in np.flatnonzero(affected[:, h]))
-                                for h in hours),
-            window_by_hour_mhz=tuple(window(affected[:, [h]], [h])[0] for h in hours),
-            no_window_reason=why))
+    for reason, run in cyclic_runs(reasons):
+        for hours in (_parts(run, reason, affected, window, weakest_at) if grid_good_days is not None else [run]):
+            pairs = affected[:, hours]
+            links = tuple(int(i) for i in np.flatnonzero(pairs.any(axis=1)))
+            win, why = window(pairs, hours)
+            every = np.ones((n, len(hours)), dtype=bool)
+            gaps.append(Gap(
+                links=links, utc_hours=tuple(hours), reason=str(reason),
+                window_mhz=span(win), single_frequency=win is not None,
+                net_window_mhz=span(window(every, hours)[0]),
+                channels_outside_hours=tuple(int(k) for k in np.flatnonzero(
+                    outside[hours].any(axis=0))),
+                links_by_hour=tuple(tuple(int(i) for i in np.flatnonzero(affected[:, h]))
+                                    for h in hours),
+                window_by_hour_mhz=tuple(span(window(affected[:, [h]], [h])[0]) for h in hours),
+                no_window_reason=why,
+                window_good_days=None if win is None else win.weakest_good_days,
+                window_reaches_target=bool(win is not None and win.reaches_target)))
     return tuple(gaps)
+
+
+#: Hours join one request while a shared frequency does within this fraction of days of what each
+#: part would get alone [0-1] (a design choice: a planner prefers one channel to two nearly as good).
+JOIN_TOLERANCE = 0.05
+
+
+def _parts(run: list[int], reason, affected, window, weakest_at) -> list[list[int]]:
+    """Cut a run of gap hours into parts that one frequency serves: one request each.
+
+    A run whose whole window reaches the target stays whole. Otherwise
+    consecutive hours join while the window of the joined hours reaches the
+    target, or (where nothing does) while its best frequency does, at every
+    hour of the part, within :data:`JOIN_TOLERANCE` of what that hour's own
+    best frequency would: a night that needs an evening and a pre-dawn
+    channel becomes two requests.
+    """
+    if reason == NOT_AUTHORISED or len(run) < 2:
+        return [run]
+    whole, _ = window(affected[:, run], run)
+    if whole is not None and whole.reaches_target:
+        return [run]
+    own = {h: window(affected[:, [h]], [h])[0] for h in run}
+
+    def fits(hours: list[int]) -> bool:
+        w, _ = window(affected[:, hours], hours)
+        if w is None:
+            return all(own[h] is None for h in hours)
+        if w.reaches_target:
+            return True
+        return all(own[h] is not None and weakest_at(h, w.best_mhz) >= own[h].weakest_good_days - JOIN_TOLERANCE
+                   for h in hours)
+
+    parts = [[run[0]]]
+    for h in run[1:]:
+        if fits(parts[-1] + [h]):
+            parts[-1].append(h)
+        else:
+            parts.append([h])
+    return parts
 
 
 def frequency_window(luf_mhz, owf_mhz) -> tuple[float, float] | None:
