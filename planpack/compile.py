@@ -141,7 +141,7 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
 
     data["antennas"] = setup.to_dicts(plan, ch_ids)
     _antenna_warnings(plan, setup, pred, out)
-    _noise_warnings(plan, labels, out)
+    _noise_warnings(plan, labels, out, _scheduled(data))
     briefing.add_briefing(data, plan, setup, pred, gaps, out)
     data["diagnostics"] = [d.to_dict() for d in out.sorted()]
     return CompiledPlan(data, out.sorted(), pred)
@@ -329,36 +329,62 @@ def _scan_list(st: dict, station_ids: list[str], ch_ids: list[str]) -> dict:
             "split_suggested": suggested, "note": note, "scan_rate": st["scan_rate_chps"]}
 
 
-#: Excess of the median lightning noise over the site's man-made noise that counts as ruling it [dB]:
-#: four times the power, so the total rises by 7 dB or more (common practice, no source).
-ATMOSPHERIC_RULES_DB = 6.0
+#: Rise of the median noise that lightning causes at a receiving site, on the channels the schedule
+#: uses, that counts as ruling the site [dB]: ten times the power of the other noise, well beyond the
+#: model's own uncertainty of about 6 dB (a design choice).
+ATMOSPHERIC_RULES_DB = 10.0
 
 
-def _noise_warnings(plan: Plan, labels: list[str], out: Collector) -> None:
-    """Warn, per receiving station, where ITU-R P.372 atmospheric noise probably rules the site."""
+def _scheduled(data: dict) -> list[set[int]]:
+    """Per UTC hour, the indices of the channels the schedule names: the net's first and second, each link's first."""
+    index = {c["id"]: i for i, c in enumerate(data["channels"])}
+    used: list[set[int]] = [set() for _ in range(24)]
+    for h in data["net_schedule"]["hours"]:
+        used[h["utc_hour"]] |= {index[c] for c in (h["first"], h["second"]) if c}
+    for link in data["links"]:
+        for h in link["hours"]:
+            if h["first"]:
+                used[h["utc_hour"]].add(index[h["first"]])
+    return used
+
+
+def _noise_warnings(plan: Plan, labels: list[str], out: Collector, used: list[set[int]]) -> None:
+    """Warn, per receiving station, where ITU-R P.372 lightning noise raises the noise on the channels
+    the schedule uses at some hours by :data:`ATMOSPHERIC_RULES_DB` or more.
+
+    ``used[h]`` holds the channel indices the schedule names at UTC hour h (the net's first and second
+    and each link's first). The rise is the median atmospheric noise summed with the site's man-made and
+    galactic noise, against those two alone.
+    """
     receivers = sorted({sid for link in plan.links for sid in link})
-    if not receivers:
+    if not receivers or not any(used):
         return
     months = [m for _, m in localtime.months_touched(plan.net.valid_from, plan.net.valid_to)]
-    freqs = np.array(sorted({c.mhz for c in plan.channels}))
     by_id = {s.id: s for s in plan.stations}
+    hours = np.array([h for h in range(24) for _ in used[h]], float)
+    f = np.array([plan.channels[c].mhz for h in range(24) for c in sorted(used[h])])
     for sid in receivers:
         s = by_id[sid]
         cat = noise.CATEGORIES[_NOISE_KEY[s.noise]]
-        found = atmospheric.atmospheric_dominance(s.at.lat_deg, s.at.lon_deg, months, freqs, cat.c_db, cat.d,
-                                                  threshold_db=ATMOSPHERIC_RULES_DB)
-        if not found:
+        quiet = noise.combine_noise_db(noise.man_made_noise_db(f, cat.c_db, cat.d), noise.galactic_noise_db(f))
+        rise = np.full(f.size, -np.inf)
+        for month in months:
+            atm, _, _ = atmospheric.atmospheric_noise_db(f, s.at.lat_deg, s.at.lon_deg, month, hours)
+            rise = np.maximum(rise, noise.combine_noise_db(quiet, atm) - quiet)
+        hot = rise >= ATMOSPHERIC_RULES_DB
+        if not hot.any():
             continue
-        worst = max(found, key=lambda e: e.worst_excess_db)
-        hours = sorted({h for e in found for h in e.utc_hours})
-        when = ("at every hour" if len(hours) == 24 else
-                f"at {schedule.format_hours(hours, labels)} local ({schedule.format_hours(hours)} UTC)")
+        at = sorted({int(h) for h in hours[hot]})
+        k = int(np.argmax(rise))
+        when = ("at every hour" if len(at) == 24 else
+                f"at {schedule.format_hours(at, labels)} local ({schedule.format_hours(at)} UTC)")
         out.warning("atmospheric-noise", f"stations.{sid}.noise",
-                    f"stations.{sid}.noise: lightning noise probably rules this receiving site {when}, up to "
-                    f"{worst.worst_excess_db:.0f} dB above {s.noise} man-made noise ({worst.worst_freq_mhz:.2f} MHz at "
-                    f"{labels[worst.worst_utc_hour]} local); the predictions include it (coarse ITU-R P.372 model, "
-                    f"about 6 dB either way): expect weaker contacts there and prefer the highest channel that "
-                    f"still carries.", _At(*plan.where(f"stations.{sid}.noise")))
+                    f"stations.{sid}.noise: lightning noise probably rules this receiving site {when}: on the "
+                    f"channels scheduled then it raises the noise by up to {rise[k]:.0f} dB over the {s.noise} "
+                    f"man-made and galactic noise ({f[k]:.2f} MHz at {labels[int(hours[k])]} local). The predictions "
+                    f"include it (a coarse ITU-R P.372 model, about 6 dB either way): expect weaker contacts "
+                    f"there and prefer the highest channel that still carries.",
+                    _At(*plan.where(f"stations.{sid}.noise")))
 
 
 _NOISE_KEY = {"city": "city", "residential": "residential", "rural": "rural", "quiet-rural": "quiet_rural"}
