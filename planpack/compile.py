@@ -74,7 +74,8 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
     choices = schedule.link_choices(pred.good_days, pred.margin_db, allowed)
     net_sched = schedule.net_schedule(pred.good_days, pred.margin_db, allowed)
     gaps = schedule.find_gaps(pred.good_days, allowed, pred.luf_mhz, pred.owf_mhz, target=net.target_good_days,
-                              margin_db=pred.margin_db, grid_good_days=pred.grid_good_days, grid_mhz=pred.grid_mhz)
+                              margin_db=pred.margin_db, grid_good_days=pred.grid_good_days, grid_mhz=pred.grid_mhz,
+                              channel_mhz=np.array([c.mhz for c in plan.channels]))
     station_links = [tuple(i for i, (a, b) in enumerate(links) if sid in (a, b)) for sid in station_ids]
     daylight = _daylight(pred.sun_utc_h)
     scans = schedule.scan_lists(pred.good_days, allowed, np.array([c.mhz for c in plan.channels]), station_links,
@@ -262,17 +263,23 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
     win = d["window_mhz"]
     target_pct = f"{round(100 * plan.net.target_good_days):d} %"
     reaches = bool(d.get("window_reaches_target"))
-    inside = [] if win is None or not reaches else [c for c in plan.channels if win[0] <= c.mhz <= win[1]]
+    inside = [] if win is None else [c for c in plan.channels if win[0] <= c.mhz <= win[1]]
     request = "`planpack request` finds the fewest frequencies to ask for"
     if d["reason"] == schedule.NOT_AUTHORISED:
         chans = [ch_ids[c] for c in d["channels_outside_hours"]]
         extra = (f"; {_and(chans)} would serve {'it' if len(chans) == 1 else 'them'}, but "
                  f"{'is' if len(chans) == 1 else 'are'} not authorised then.")
-    elif win is not None and inside:
+    elif win is not None and inside and reaches:
         extra = (f"; {_and([c.id for c in inside])} lie{'s' if len(inside) == 1 else ''} in the window "
                  f"{win[0]:.2f}-{win[1]:.2f} MHz where a channel would serve, but fall{'s' if len(inside) == 1 else ''} "
                  f"short of the target there on too many days: more power, a better-matched antenna or a quieter "
                  f"receiving site would help more than another channel.")
+    elif win is not None and inside:
+        got = d.get("window_good_days") or 0.0
+        extra = (f"; no frequency reaches the target of {target_pct} of days for all of them, and "
+                 f"{_and([c.id for c in inside])} already lie{'s' if len(inside) == 1 else ''} where the band does best "
+                 f"({win[0]:.2f}-{win[1]:.2f} MHz, about {int(100 * got)} % of days at the worst hour): more power, a "
+                 f"better antenna or a quieter receiving site will help, another channel will not.")
     elif win is not None and reaches:
         extra = (f"; a channel between {win[0]:.2f} and {win[1]:.2f} MHz would serve them on at least "
                  f"{target_pct} of days ({request}).")

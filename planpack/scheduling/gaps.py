@@ -91,7 +91,7 @@ class Gap:
 
 
 def find_gaps(good_days, allowed, luf_mhz, owf_mhz, *, target: float = DEFAULT_TARGET,
-              margin_db=None, grid_good_days=None, grid_mhz=None) -> tuple[Gap, ...]:
+              margin_db=None, grid_good_days=None, grid_mhz=None, channel_mhz=None) -> tuple[Gap, ...]:
     """Find the hours where no authorised channel reaches the target on the
     weakest link, grouped into runs with the frequency window that would
     close each.
@@ -115,6 +115,11 @@ def find_gaps(good_days, allowed, luf_mhz, owf_mhz, *, target: float = DEFAULT_T
         (:func:`planpack.scheduling.windows.serving_window`); otherwise
         [max LUF, min OWF].
     grid_mhz : array (g,), the band grid [MHz], ascending; with ``grid_good_days``.
+    channel_mhz : array (channels,), optional
+        The channels' frequencies [MHz]. Where no frequency reaches the
+        target and an assigned channel already lies where the band does best,
+        a run of gap hours is one gap (more channels would not help), not
+        cut into one request per part.
 
     Returns
     -------
@@ -174,12 +179,15 @@ def find_gaps(good_days, allowed, luf_mhz, owf_mhz, *, target: float = DEFAULT_T
                 return None, "the LUF lies above the OWF on some of them"
             return Window(w[0], w[1], float(np.sqrt(w[0] * w[1])), goal), None
 
+    chan_mhz = None if channel_mhz is None else np.asarray(channel_mhz, float).ravel()
+
     def span(w: Window | None):
         return None if w is None else (w.low_mhz, w.high_mhz)
 
     gaps = []
     for reason, run in cyclic_runs(reasons):
-        for hours in (_parts(run, reason, affected, window, weakest_at) if grid_good_days is not None else [run]):
+        for hours in (_parts(run, reason, affected, window, weakest_at, chan_mhz, ok)
+                      if grid_good_days is not None else [run]):
             pairs = affected[:, hours]
             links = tuple(int(i) for i in np.flatnonzero(pairs.any(axis=1)))
             win, why = window(pairs, hours)
@@ -204,7 +212,7 @@ def find_gaps(good_days, allowed, luf_mhz, owf_mhz, *, target: float = DEFAULT_T
 JOIN_TOLERANCE = 0.05
 
 
-def _parts(run: list[int], reason, affected, window, weakest_at) -> list[list[int]]:
+def _parts(run: list[int], reason, affected, window, weakest_at, channel_mhz=None, ok=None) -> list[list[int]]:
     """Cut a run of gap hours into parts that one frequency serves: one request each.
 
     A run whose whole window reaches the target stays whole. Otherwise
@@ -219,6 +227,10 @@ def _parts(run: list[int], reason, affected, window, weakest_at) -> list[list[in
     whole, _ = window(affected[:, run], run)
     if whole is not None and whole.reaches_target:
         return [run]
+    if whole is not None and channel_mhz is not None:
+        inside = (channel_mhz >= whole.low_mhz) & (channel_mhz <= whole.high_mhz) & ok[run].all(axis=0)
+        if inside.any():
+            return [run]      # the band's best is already assigned: power or antennas, not requests
     own = {h: window(affected[:, [h]], [h])[0] for h in run}
 
     def fits(hours: list[int]) -> bool:
