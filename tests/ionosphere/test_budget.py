@@ -156,7 +156,8 @@ def test_bad_inputs_are_clear():
 def test_methods_are_plain_json():
     m = methods()
     json.dumps(m)
-    assert "atmospheric" in " ".join(m["not_modelled"])
+    assert "atmospheric" not in " ".join(m["not_modelled"])        # P.372 lightning noise is modelled now
+    assert "P.372" in m["atmospheric_noise"] and "from memory" in m["atmospheric_noise"]
     assert m["libraries"]["PyIRI"] == "0.1.7"
     # every figure says at which reliability it holds, and how the hour is sampled
     assert "90 %" in m["luf"] and "90 %" in m["owf"] and "fixed ratios" in m["owf"]
