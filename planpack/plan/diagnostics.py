@@ -30,6 +30,7 @@ CODES: dict[str, str] = {
     "yaml-tag": "an explicit YAML tag, which plans do not use",
     "yaml-multiple-documents": "more than one YAML document in the file",
     "duplicate-key": "the same key twice in one mapping",
+    "yaml-merge-key": "a YAML merge key ('<<'), which readers disagree on and plans do not use",
     "yaml11-bool": "an unquoted yes/no/on/off where text is expected",
     "yaml11-sexagesimal": "an unquoted 08:00-style value that YAML 1.1 reads as a number",
     "yaml11-number-form": "a number in a form that YAML versions read differently",
@@ -98,7 +99,7 @@ class Diagnostic:
 
     def format(self) -> str:
         """One line for a terminal; control and bidi characters from the plan are shown escaped."""
-        return _printable(f"{self.file}:{self.line}:{self.column}: {self.severity} {self.code}: {self.message}")
+        return printable(f"{self.file}:{self.line}:{self.column}: {self.severity} {self.code}: {self.message}")
 
     def to_dict(self) -> dict:
         return {
@@ -117,8 +118,10 @@ class Diagnostic:
 _UNPRINTABLE = re.compile("[\x00-\x1f\x7f-\x9f\u202a-\u202e\u2066-\u2069]")
 
 
-def _printable(text: str) -> str:
+def printable(text: str) -> str:
+    """``text`` with control and bidi characters shown as escapes (\\x1b, \\u202e), safe for a terminal or CI log."""
     return _UNPRINTABLE.sub(lambda m: f"\\x{ord(m[0]):02x}" if ord(m[0]) < 0x100 else f"\\u{ord(m[0]):04x}", text)
+
 
 
 class Collector:

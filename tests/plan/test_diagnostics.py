@@ -79,6 +79,7 @@ CASES = [
     ("complex-key", mutate(("    name: Operations\n", "    name: Operations\n    ? [a, b]\n    : 1\n")), "yaml-complex-key", "[a, b]", 1),
     ("tag", mutate(("title: Test net", "title: !!python/object:os.system x")), "yaml-tag", "!!python", 1),
     ("two-documents", BASE + "---\nplanpack: 1\n", "yaml-multiple-documents", "---", 1),
+    ("merge-key", mutate(("    height_m: 7\n", "    height_m: 7\n    <<: {wire_mm: 3}\n")), "yaml-merge-key", "<<", 1),
 ]
 
 
