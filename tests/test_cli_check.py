@@ -96,11 +96,12 @@ def test_schema_prints_json_schema():
 
 def test_internal_error_is_one_line(monkeypatch, capsys):
     from planpack import cli
+    from planpack.commands import codes
 
     def boom(args):
         raise RuntimeError("simulated")
 
-    monkeypatch.setattr(cli, "cmd_codes", boom)
+    monkeypatch.setattr(codes, "run", boom)
     assert cli.main(["codes"]) == cli.EXIT_INTERNAL
     err = capsys.readouterr().err
     assert "internal error" in err and "Traceback" not in err
