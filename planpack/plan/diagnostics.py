@@ -66,12 +66,15 @@ CODES: dict[str, str] = {
     "bad-link": "a link that joins a station to itself, or twice",
     "unused-antenna": "an antenna that no station uses",
     "unknown-mode": "a channel mode that is neither built in nor declared",
+    "plan-too-large": "more links, predictions or antenna solutions than planpack's size bounds",
     # analysis results reported by check (filled in by later passes)
     "channel-gap": "hours where no assigned channel serves a link",
     "swr-high": "an antenna's SWR above 3:1 on an assigned channel",
     "nvis-height": "a dipole hung outside the NVIS height window",
     "nvis-whip": "a whip used alone on an NVIS net",
     "wasted-channel": "a channel that serves no link at any hour",
+    # publishing
+    "cards-layout": "content the field cards cannot lay out at the card size (reported by build and cards)",
 }
 
 
