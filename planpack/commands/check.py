@@ -2,7 +2,7 @@
 
 Everything ``build`` would refuse is reported here first: reading and
 validation errors, and (unless ``--no-analysis``) what the predictions and the
-antenna solutions find.
+antenna solutions find, and field cards that cannot be laid out.
 """
 
 from __future__ import annotations
@@ -32,8 +32,12 @@ def run(args) -> int:
         found = list(r.diagnostics)
         if r.ok and not args.no_analysis:
             from planpack.compile import compile_plan
+            from planpack.publish.pipeline import card_problems
 
-            found += compile_plan(r.plan, cells=False).diagnostics
+            compiled = compile_plan(r.plan, cells=False)
+            found += compiled.diagnostics
+            if not any(d.severity == "error" for d in compiled.diagnostics):
+                found += card_problems(r, compiled.data)
         # a plan counts as having errors whether reading or the analysis found them
         with_errors += any(d.severity == "error" for d in found)
         diags += found

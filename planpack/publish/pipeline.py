@@ -91,6 +91,57 @@ def _render_cards(r, data: dict, **options) -> dict[str, bytes]:
     return pdfs
 
 
+MAX_LAID_OUT = 50  # station cards ``check`` lays out in full; beyond, the ones most likely not to fit
+
+
+def _stations_to_lay_out(data: dict, limit: int = MAX_LAID_OUT) -> list[dict]:
+    """The stations whose cards ``check`` lays out: all of them in a net of up to ``limit``; else a sample.
+
+    The sample holds the stations with the most links, the longest name, id and
+    address and the most antennas, the control station, and one station for each
+    set of antennas in use (the SWR tables differ by antenna): the cards whose
+    tables are widest and tallest.
+    """
+    stations = data["stations"]
+    if len(stations) <= limit:
+        return stations
+    links: dict[str, int] = {}
+    for ln in data["links"]:
+        for end in (ln["from"], ln["to"]):
+            links[end] = links.get(end, 0) + 1
+    pick = {s["id"] for s in stations if s["role"] == "control"}
+    for measure in (lambda s: links.get(s["id"], 0), lambda s: len(s["name"]), lambda s: len(s["id"]),
+                    lambda s: len(s["address"]), lambda s: len(s["antennas"]), lambda s: sum(map(len, s["antennas"]))):
+        pick.add(max(stations, key=measure)["id"])
+    seen_sets = set()
+    for s in stations:
+        key = tuple(s["antennas"])
+        if key not in seen_sets and len(pick) < limit:
+            seen_sets.add(key)
+            pick.add(s["id"])
+    return [s for s in stations if s["id"] in pick]
+
+
+def card_problems(result, data: dict, size: str | None = None) -> list:
+    """What ``build`` would refuse about the field cards of a compiled plan, as positioned diagnostics.
+
+    Lays the cards out without drawing them (all station cards of a net of up to
+    MAX_LAID_OUT stations, else the sample of :func:`_stations_to_lay_out`, and the net card).
+    """
+    cards = _cards_module()
+    refusals = tuple(getattr(cards, n) for n in ("CardLayoutError", "CardSizeError") if hasattr(cards, n))
+    layout = getattr(cards, "card_deck", None)
+    sample = {**data, "stations": _stations_to_lay_out(data)}
+    try:
+        if layout is not None:
+            layout(sample, size)
+        else:
+            cards.render_cards(sample, size=size)
+    except refusals as exc:
+        return [CardsRefused(result, str(exc)).diagnostic()]
+    return []
+
+
 def _start(out, use_cache: bool):
     from planpack.publish import output
     from planpack.workflow.reuse import Reuse, renderer_key

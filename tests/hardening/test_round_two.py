@@ -217,3 +217,123 @@ def test_check_counts_a_plan_whose_only_error_comes_from_the_analysis(tmp_path):
 
 def test_repository_root_is_importable_for_the_probe():
     assert (REPO / "planpack" / "cli.py").is_file()
+
+
+# ------------------------------------------------------------ 3: size, bounded
+
+def _capped_check(path, *extra, cwd):
+    from tests.hardening.test_cli_hostile import check
+
+    return check([str(path)], *extra, cwd=cwd)  # a fresh process under a 1 GiB address-space cap
+
+
+def test_700_stations_all_pairs_is_refused_up_front_with_the_limit(tmp_path):
+    """Finding 3: 132 KB, 700 stations, links: all ran 29 s into a MemoryError (exit 3)."""
+    from tests.hardening.bigplan import mesh_plan
+
+    text = mesh_plan(700, 10)
+    path = tmp_path / "mesh.yaml"
+    path.write_text(text, encoding="utf-8")
+    r = _capped_check(path, cwd=tmp_path)  # with the analysis: refused before it starts
+    assert r.returncode == 1, r.stderr[-2000:]
+    line = text.splitlines().index("  links: all") + 1
+    assert f"{path.name}:{line}:10: error plan-too-large: net.links: 244650 links" in r.stderr, r.stderr[-2000:]
+    assert "at most 2000 links" in r.stderr and "Traceback" not in r.stderr
+
+
+def test_300_stations_all_pairs_is_refused_too(tmp_path):
+    from tests.hardening.bigplan import mesh_plan
+
+    path = tmp_path / "mesh.yaml"
+    path.write_text(mesh_plan(300, 10), encoding="utf-8")
+    r = _capped_check(path, "--no-analysis", cwd=tmp_path)
+    assert r.returncode == 1 and "44850 links" in r.stderr and "plan-too-large" in r.stderr
+
+
+def test_ten_thousand_unknown_references_are_answered_with_bounded_hints(tmp_path):
+    """Finding 3: 10 000 link pairs naming unknown stations took 811 s (difflib once per reference)."""
+    from tests.hardening.bigplan import big_plan
+
+    pairs = "".join(f"    - [ghost-{i:05d}, phantom-{i:05d}]\n" for i in range(10_000))
+    path = tmp_path / "unknown.yaml"
+    path.write_text(big_plan(2000, 10).replace("  links: hub\n", "  links:\n" + pairs), encoding="utf-8")
+    r = _capped_check(path, "--no-analysis", cwd=tmp_path)
+    assert r.returncode == 1 and "expected a list of 1 to 2000 items, got 10000" in r.stderr, r.stderr[-2000:]
+    # within the bound: 2000 pairs, 4000 unknown names, and 2000 stations naming a misspelt antenna
+    text = big_plan(2000, 10).replace("  links: hub\n", "  links:\n" + pairs[: pairs.index("    - [ghost-02000")])
+    text = text.replace("antenna: [night-wire, day-wire]", "antenna: [night-wyre, day-wire]")
+    path.write_text(text, encoding="utf-8")
+    r = _capped_check(path, "--no-analysis", cwd=tmp_path)
+    assert r.returncode == 1, r.stderr[-2000:]
+    unknown = [ln for ln in r.stderr.splitlines() if "unknown-reference" in ln]
+    assert len(unknown) == 4000 + 1333
+    hinted = [ln for ln in unknown if "did you mean" in ln]
+    assert 0 < len(hinted) < len(unknown)
+    assert all("did you mean 'night-wire'" in ln for ln in unknown if "night-wyre" in ln)  # one look-up, reused
+
+
+# ------------------------------------------------------------ 4: values the schema accepts, analysed without a crash
+
+def test_a_low_solar_flux_is_taken_as_sunspot_number_zero(tmp_path):
+    """Finding 4: solar: {f107: 60} became a negative sunspot number (exit 3)."""
+    from planpack.plan import read_plan
+    from planpack.predictions import ssn_levels
+
+    path = tmp_path / "net.yaml"
+    path.write_text(small_plan().replace("solar: {ssn: 60}", "solar: {f107: [60, 63]}"), encoding="utf-8")
+    plan = read_plan(str(path)).plan
+    assert ssn_levels(plan) == [0.0, 0.0]
+    r = run_cli(["check", "-q", str(path)], cwd=tmp_path)
+    assert r.returncode == 0, r.stderr[-2000:]
+
+
+@pytest.mark.parametrize("valid,bad", [
+    ("{from: 2027-03-01, to: 9999-12-31}", "to"),
+    ("{from: 0001-01-01, to: 0001-03-01}", "from"),
+    ("{from: 2100-12-01, to: 2101-01-31}", "to"),
+])
+def test_a_validity_beyond_the_horizon_is_a_positioned_error(tmp_path, valid, bad):
+    text = small_plan()
+    text = re.sub(r"valid: \{[^}]*\}", f"valid: {valid}", text)
+    path = tmp_path / "net.yaml"
+    path.write_text(text, encoding="utf-8")
+    r = run_cli(["check", str(path)], cwd=tmp_path)
+    assert r.returncode == 1, r.stderr
+    line = next(i for i, ln in enumerate(text.splitlines(), 1) if "valid:" in ln)
+    assert re.search(rf"{line}:\d+: error out-of-range: net\.valid\.{bad}: expected a date from 1900-01-01 to 2100-12-31",
+                     r.stderr), r.stderr
+    assert "Traceback" not in r.stderr and "internal error" not in r.stderr
+
+
+# ------------------------------------------------------------ 8: what build refuses, check reports first
+
+def test_a_long_custom_mode_id_is_refused_by_check_with_a_position(tmp_path):
+    """Finding 8: a 39-character mode id checked clean, then build failed with 'cards-layout' and no position."""
+    mode = "m" + "x" * 38
+    text = small_plan().replace("mode: usb}", f"mode: {mode}}}", 1) + f"modes:\n  {mode}: {{snr_db: 10, bandwidth_hz: 3000}}\n"
+    path = tmp_path / "net.yaml"
+    path.write_text(text, encoding="utf-8")
+    r = run_cli(["check", "--no-analysis", str(path)], cwd=tmp_path)
+    assert r.returncode == 1
+    assert re.search(r"net\.yaml:\d+:\d+: error out-of-range: channels\[0\]\.mode: expected text of at most 12", r.stderr)
+    assert re.search(rf"net\.yaml:\d+:\d+: error out-of-range: modes\.{mode}: expected text of at most 12", r.stderr)
+
+
+def test_check_reports_every_card_refusal_build_would_make(tmp_path):
+    """Long channel ids, notes and four antennas a station: whatever the card renderer cannot lay out, check
+    reports first with a position, and build refuses with the same positioned diagnostic."""
+    from tests.hardening.cardplan import crowded_plan
+
+    for i, (size, text) in enumerate(crowded_plan()):
+        path = tmp_path / f"crowded-{i}.yaml"
+        path.write_text(text, encoding="utf-8")
+        checked = run_cli(["check", str(path)], cwd=tmp_path, timeout=600)
+        built = run_cli(["build", str(path), "--out", str(tmp_path / f"site-{i}"), "-q"], cwd=tmp_path, timeout=600)
+        assert "Traceback" not in checked.stderr + built.stderr
+        refusals = [ln for ln in built.stderr.splitlines() if "error cards-layout" in ln]
+        if built.returncode == 0:
+            assert "cards-layout" not in checked.stderr, (size, checked.stderr[-2000:])
+            continue
+        assert built.returncode == 1 and len(refusals) == 1, (size, built.stderr[-2000:])
+        assert re.match(rf"{re.escape(str(path))}:\d+:\d+: error cards-layout: net\.card_size: ", refusals[0])
+        assert checked.returncode == 1 and refusals[0] in checked.stderr, (size, checked.stderr[-2000:])
