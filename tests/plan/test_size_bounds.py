@@ -33,7 +33,7 @@ def test_the_prediction_benchmarks_all_pairs_net_is_within_the_bounds(write_plan
 @pytest.mark.parametrize("stations,channels,edit,needle,words", [
     (61, 10, ("  links: hub\n", "  links: all\n"), None, None),  # 1830 links: fine
     (65, 10, ("  links: hub\n", "  links: all\n"), "all", "2080 links"),
-    (60, 46, ("  links: hub\n", "  links: all\n"), "all", "81420 link·channel pairs"),
+    (60, 57, ("  links: hub\n", "  links: all\n"), "all", "100890 link·channel pairs"),
     (60, 30, ("solar: {ssn: 60}", "solar: {ssn: [40, 90]}"), "all", "424800 predictions of 24 hours"),
 ])
 def test_links_and_predictions_are_bounded(write_plan, stations, channels, edit, needle, words):
