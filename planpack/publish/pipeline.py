@@ -91,20 +91,14 @@ def _render_cards(r, data: dict, **options) -> dict[str, bytes]:
     return pdfs
 
 
-MAX_LAID_OUT = 50  # station cards ``check`` lays out in full; beyond, the ones most likely not to fit
+MAX_LAID_OUT = 100  # nets of up to this many stations have every card laid out by ``check``
+SAMPLE = 40  # stations of the sub-net laid out for a larger net
 
 
-def _stations_to_lay_out(data: dict, limit: int = MAX_LAID_OUT) -> list[dict]:
-    """The stations whose cards ``check`` lays out: all of them in a net of up to ``limit``; else a sample.
-
-    The sample holds the stations with the most links, the longest name, id and
-    address and the most antennas, the control station, and one station for each
-    set of antennas in use (the SWR tables differ by antenna): the cards whose
-    tables are widest and tallest.
-    """
+def _sample_stations(data: dict, limit: int = SAMPLE) -> set[str]:
+    """The stations whose cards are likely widest or tallest: the control station, those with the most
+    links, the longest name, id and address, the most antennas, and one for each set of antennas in use."""
     stations = data["stations"]
-    if len(stations) <= limit:
-        return stations
     links: dict[str, int] = {}
     for ln in data["links"]:
         for end in (ln["from"], ln["to"]):
@@ -113,25 +107,41 @@ def _stations_to_lay_out(data: dict, limit: int = MAX_LAID_OUT) -> list[dict]:
     for measure in (lambda s: links.get(s["id"], 0), lambda s: len(s["name"]), lambda s: len(s["id"]),
                     lambda s: len(s["address"]), lambda s: len(s["antennas"]), lambda s: sum(map(len, s["antennas"]))):
         pick.add(max(stations, key=measure)["id"])
-    seen_sets = set()
+    seen: set[tuple] = set()
     for s in stations:
-        key = tuple(s["antennas"])
-        if key not in seen_sets and len(pick) < limit:
-            seen_sets.add(key)
+        if len(pick) >= limit:
+            break
+        if tuple(s["antennas"]) not in seen:
+            seen.add(tuple(s["antennas"]))
             pick.add(s["id"])
-    return [s for s in stations if s["id"] in pick]
+    return pick
+
+
+def _sub_net(data: dict, keep: set[str]) -> dict:
+    """``data`` cut down to the stations in ``keep`` and what refers to them (a consistent plan.json)."""
+    links = [ln for ln in data["links"] if ln["from"] in keep and ln["to"] in keep]
+    ids = {ln["id"] for ln in links}
+    gaps = [{**g, "links": [x for x in g["links"] if x in ids]} for g in data["gaps"]]
+    hours = [{**h, "weakest_link": h.get("weakest_link") if h.get("weakest_link") in ids else None}
+             for h in data["net_schedule"]["hours"]]
+    antennas = [{**a, "stations": [x for x in a["stations"] if x in keep],
+                 "exposure": [e for e in a.get("exposure", []) if e["station"] in keep]} for a in data["antennas"]]
+    return {**data, "stations": [s for s in data["stations"] if s["id"] in keep], "links": links,
+            "gaps": [g for g in gaps if g["links"]], "net_schedule": {**data["net_schedule"], "hours": hours},
+            "scan_lists": [x for x in data["scan_lists"] if x["station"] in keep], "antennas": antennas}
 
 
 def card_problems(result, data: dict, size: str | None = None) -> list:
     """What ``build`` would refuse about the field cards of a compiled plan, as positioned diagnostics.
 
-    Lays the cards out without drawing them (all station cards of a net of up to
-    MAX_LAID_OUT stations, else the sample of :func:`_stations_to_lay_out`, and the net card).
+    Lays the cards out without drawing them: every card of a net of up to
+    MAX_LAID_OUT stations; of a larger net (whose full layout takes minutes),
+    the cards of a sub-net of the stations most likely not to fit (:func:`_sample_stations`).
     """
     cards = _cards_module()
     refusals = tuple(getattr(cards, n) for n in ("CardLayoutError", "CardSizeError") if hasattr(cards, n))
     layout = getattr(cards, "card_deck", None)
-    sample = {**data, "stations": _stations_to_lay_out(data)}
+    sample = data if len(data["stations"]) <= MAX_LAID_OUT else _sub_net(data, _sample_stations(data))
     try:
         if layout is not None:
             layout(sample, size)
