@@ -8,6 +8,10 @@ Prints, in a form to paste:
 - the largest plan read (500 stations, 200 channels): time and peak memory of
   ``planpack check --no-analysis`` (target: under 10 s and 1 GB on the 2-core development machine),
   and of a full ``check`` with the analysis when it finishes within the time allowed;
+- the size bounds: a 700-station ``links: all`` plan (refused up front), 10 000 link pairs naming
+  unknown stations (and 2000 within the bound, with every hint), and the largest all-pairs net
+  within the bounds (60 stations, 1770 links, 40 channels): time and peak memory of ``check``
+  (goal: every answer within 60 s and 1 GB; 15 s for the unknown references);
 - how many hostile strings the browser test loads (tests/hardening/test_browser_inert.py).
 
 Run (about two minutes):
@@ -110,6 +114,27 @@ def big_plan_figures(work: Path, analysis_timeout: float) -> dict:
             "full_code": code_full, "full_s": full_s, "full_mb": full_mb, "timeout": analysis_timeout}
 
 
+def size_figures(work: Path, timeout: float) -> dict:
+    """check on the plans at and beyond the size bounds: {name: (exit code, seconds, peak MB)}."""
+    from tests.hardening.bigplan import big_plan, mesh_plan
+
+    plans = {
+        "mesh700": mesh_plan(700, 10),
+        "unknown10k": big_plan(2000, 10).replace("  links: hub\n", "  links:\n" + "".join(
+            f"    - [ghost-{i:05d}, phantom-{i:05d}]\n" for i in range(10_000))),
+        "unknown2k": big_plan(2000, 10).replace("  links: hub\n", "  links:\n" + "".join(
+            f"    - [ghost-{i:05d}, phantom-{i:05d}]\n" for i in range(2000))).replace(
+            "antenna: [night-wire, day-wire]", "antenna: [night-wyre, day-wire]"),
+        "mesh60": mesh_plan(60, 40),
+    }
+    out = {}
+    for name, text in plans.items():
+        path = work / f"{name}.yaml"
+        path.write_text(text, encoding="utf-8")
+        out[name] = run_measured(["check", "-q", str(path)], work, timeout) + (len(text.encode()),)
+    return out
+
+
 def main() -> int:
     ap = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
     ap.add_argument("--fuzz", type=int, default=1000, help="examples per fuzz property (default 1000)")
@@ -129,6 +154,8 @@ def main() -> int:
         kills = kill_loop(work / "kills", runs=args.kills, seed=SEED)
         print("reading and checking the 500-station plan ...", file=sys.stderr, flush=True)
         big = big_plan_figures(work, args.analysis_timeout)
+        print("checking the plans at the size bounds ...", file=sys.stderr, flush=True)
+        size = size_figures(work, args.analysis_timeout)
     finally:
         shutil.rmtree(work, ignore_errors=True)
         shutil.rmtree(hc.CACHE_DIR, ignore_errors=True)
@@ -155,12 +182,24 @@ Reliability figures (bench/robustness.py, {machine}):
 - Largest plan read: 500 stations, 200 channels ({big['bytes'] / 1024:.0f} KiB of YAML, 499 links): read and validated in
   {big['read_s'] * 1000:.0f} ms ({big['read_peak_mb']:.0f} MB traced); `planpack check --no-analysis` {big['quick_s']:.1f} s, peak {big['quick_mb']:.0f} MB
   (target: under 10 s and 1 GB); full `planpack check` with the analysis: {full}.
+- Size bounds (`planpack check`, each in a fresh process): {_size_line(size, "mesh700", "700 stations, links: all (244 650 links)")};
+  {_size_line(size, "unknown10k", "10 000 link pairs naming unknown stations")}; {_size_line(size, "unknown2k",
+  "2000 pairs and 1333 stations naming unknown ids, hints within a budget")}; {_size_line(size, "mesh60",
+  "the largest all-pairs net within the bounds, 60 stations, 1770 links, 40 channels, with the analysis")}.
 - Hostile strings in the browser test: {strings} (every free-text field: net title, handling marking,
   Markdown instructions, base URL, station names, channel notes, and the plan's file name), loaded in
   headless Chromium on every page and chart: no dialog, no script, no inline handler, CSP on every page.
 """)
     print(f"(hostile ids tried through build: {len(hostile.HOSTILE_IDS)} in 5 id places; hostile base URLs: {len(hostile.HOSTILE_URLS)})")
     return 0
+
+
+def _size_line(size: dict, name: str, what: str) -> str:
+    code, wall, mb, nbytes = size[name]
+    if code is None:
+        return f"{what} ({nbytes / 1024:.0f} KiB): did not finish in time"
+    answer = {0: "checked clean", 1: "refused or reported with positioned errors"}.get(code, f"exit {code}")
+    return f"{what} ({nbytes / 1024:.0f} KiB): {answer} in {wall:.1f} s, peak {mb:.0f} MB"
 
 
 if __name__ == "__main__":

@@ -59,11 +59,15 @@ class LinkPredictions:
 
 
 def ssn_levels(plan: Plan) -> list[float]:
-    """The sunspot numbers R12 to predict for: one, or both ends of a range."""
+    """The sunspot numbers R12 to predict for: one, or both ends of a range.
+
+    A flux below about 63.7 sfu converts to a negative R12 by P.1239's relation;
+    it is taken as R12 = 0, the quietest sun the ionospheric maps describe.
+    """
     sol = plan.net.solar
     if sol.index == "ssn":
         return [float(v) for v in sol.values]
-    return [float(np.round(r12_from_f107(v), 1)) for v in sol.values]
+    return [max(0.0, float(np.round(r12_from_f107(v), 1))) for v in sol.values]
 
 
 def link_set(plan: Plan, setup, pairs: list[tuple[str, str]]) -> LinkSet:

@@ -1,4 +1,4 @@
-"""Fixtures shared by every test folder: the one headless Chromium of the session.
+"""Fixtures shared by every test folder: the one headless Chromium of the session, and a private cache folder.
 
 Playwright's sync API allows one running instance per process, so every browser
 test uses this fixture. Without a browser the tests skip, unless
@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import os
 import shutil
+import tempfile
 
 import pytest
 
@@ -39,3 +40,15 @@ def browser():
             b.close()
 
 
+@pytest.fixture(scope="session", autouse=True)
+def _private_cache_folder():
+    """planpack's cache goes to the user's cache folder by default: give the test session its own."""
+    saved = os.environ.get("XDG_CACHE_HOME")
+    folder = tempfile.mkdtemp(prefix="planpack-test-xdg-cache-")
+    os.environ["XDG_CACHE_HOME"] = folder
+    yield
+    if saved is None:
+        os.environ.pop("XDG_CACHE_HOME", None)
+    else:
+        os.environ["XDG_CACHE_HOME"] = saved
+    shutil.rmtree(folder, ignore_errors=True)

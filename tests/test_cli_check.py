@@ -96,11 +96,12 @@ def test_schema_prints_json_schema():
 
 def test_internal_error_is_one_line(monkeypatch, capsys):
     from planpack import cli
+    from planpack.commands import codes
 
     def boom(args):
         raise RuntimeError("simulated")
 
-    monkeypatch.setattr(cli, "cmd_codes", boom)
+    monkeypatch.setattr(codes, "run", boom)
     assert cli.main(["codes"]) == cli.EXIT_INTERNAL
     err = capsys.readouterr().err
     assert "internal error" in err and "Traceback" not in err
@@ -112,3 +113,29 @@ def test_check_prints_analysis_warnings_for_demo():
     assert r.returncode == 0
     assert "warning channel-gap" in r.stderr and "warning wasted-channel" in r.stderr
     assert run("check", "--strict", "plans/danube-relief.yaml").returncode == 1
+
+
+def test_every_command_module_is_registered_with_the_same_interface():
+    """A command is one module in planpack/commands/ plus its name in COMMANDS; nothing else."""
+    import importlib
+    import pkgutil
+
+    import planpack.commands
+    from planpack import cli
+    from planpack.commands import COMMANDS
+
+    modules = {m.name for m in pkgutil.iter_modules(planpack.commands.__path__)} - {"common"}
+    assert modules == set(COMMANDS)
+    for name in COMMANDS:
+        mod = importlib.import_module(f"planpack.commands.{name}")
+        assert mod.NAME == name and mod.HELP and mod.DESCRIPTION
+        assert callable(mod.add_arguments) and callable(mod.run)
+    sub = next(a for a in cli.build_parser()._actions if a.choices and "check" in a.choices)
+    assert list(sub.choices) == list(COMMANDS)
+
+
+def test_help_imports_nothing_heavy():
+    probe = ("import sys\nfrom planpack import cli\ntry:\n    cli.main(['--help'])\nexcept SystemExit:\n    pass\n"
+             "print(sorted(m for m in ('numpy', 'scipy', 'yaml', 'reportlab', 'jinja2') if m in sys.modules))")
+    r = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True, cwd=ROOT, timeout=120)
+    assert r.stdout.strip().splitlines()[-1] == "[]", r.stdout + r.stderr

@@ -30,6 +30,7 @@ CODES: dict[str, str] = {
     "yaml-tag": "an explicit YAML tag, which plans do not use",
     "yaml-multiple-documents": "more than one YAML document in the file",
     "duplicate-key": "the same key twice in one mapping",
+    "yaml-merge-key": "a YAML merge key ('<<'), which readers disagree on and plans do not use",
     "yaml11-bool": "an unquoted yes/no/on/off where text is expected",
     "yaml11-sexagesimal": "an unquoted 08:00-style value that YAML 1.1 reads as a number",
     "yaml11-number-form": "a number in a form that YAML versions read differently",
@@ -66,6 +67,7 @@ CODES: dict[str, str] = {
     "unused-antenna": "an antenna that no station uses",
     "unknown-mode": "a channel mode that is neither built in nor declared",
     "clock-change": "the UTC offset of the net's time zone changes inside the validity period",
+    "plan-too-large": "more links, predictions or antenna solutions than planpack's size bounds",
     # analysis results reported by check (filled in by later passes)
     "channel-gap": "hours where no assigned channel serves a link",
     "antenna-loss": "much of the set's power lost before the antenna a station rigs on a channel (matching, feedline or ground)",
@@ -78,6 +80,8 @@ CODES: dict[str, str] = {
     "wasted-channel": "a channel that serves no link at any hour",
     "atmospheric-noise": "lightning noise probably rules a receiving site at some hours",
     "exposure-clearance": "an RF exposure distance larger than the clearance the plan gives for a station",
+    # publishing
+    "cards-layout": "content the field cards cannot lay out at the card size (reported by build and cards)",
 }
 
 
@@ -105,7 +109,7 @@ class Diagnostic:
 
     def format(self) -> str:
         """One line for a terminal; control and bidi characters from the plan are shown escaped."""
-        return _printable(f"{self.file}:{self.line}:{self.column}: {self.severity} {self.code}: {self.message}")
+        return printable(f"{self.file}:{self.line}:{self.column}: {self.severity} {self.code}: {self.message}")
 
     def to_dict(self) -> dict:
         return {
@@ -124,8 +128,10 @@ class Diagnostic:
 _UNPRINTABLE = re.compile("[\x00-\x1f\x7f-\x9f\u202a-\u202e\u2066-\u2069]")
 
 
-def _printable(text: str) -> str:
+def printable(text: str) -> str:
+    """``text`` with control and bidi characters shown as escapes (\\x1b, \\u202e), safe for a terminal or CI log."""
     return _UNPRINTABLE.sub(lambda m: f"\\x{ord(m[0]):02x}" if ord(m[0]) < 0x100 else f"\\u{ord(m[0]):04x}", text)
+
 
 
 class Collector:

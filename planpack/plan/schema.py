@@ -7,8 +7,10 @@ as JSON Schema, so the two can never disagree. Units are in the key names
 
 from __future__ import annotations
 
+import datetime
 import json
 
+from planpack.plan.bounds import MAX_LINKS
 from planpack.plan.types import (
     ByShape, Choice, Date, Field, Flag, ListOf, MapOf, Number, Record, Slug, Text,
 )
@@ -23,9 +25,17 @@ ROLES = ("control", "member")
 CARD_SIZES = ("3.5x5in", "a6", "3x5in")
 MATCHINGS = ("none", "set-tuner", "wide-tuner", "feedpoint-coupler")
 
+# A mode id is printed in the channel list of every card beside the channel id (at most 12 characters)
+MODE_ID_MAX = 12
+
 # ALE addresses are checked in the semantic pass, where the message can cite the standard.
 ADDRESS = Text(max_len=40, description="ALE address (MIL-STD-188-141 appendix A): A-Z and 0-9, at most 15 characters")
 HOURS = Text(max_len=40, description="authorised hours in local time, HH:MM-HH:MM (may wrap midnight)")
+
+# Plans are for nets that run, have run or will soon: a date beyond these is a typo (9999-12-31), and the
+# geomagnetic field model the predictions use (IGRF-13 in PyIRI, 1900-2030) is extrapolated after 2030.
+VALID_DATE = Date(description="the validity period lies within 1900-2100",
+                  minimum=datetime.date(1900, 1, 1), maximum=datetime.date(2100, 12, 31))
 
 SOLAR_VALUE = {
     "ssn": ByShape(scalar=Number(0, 300, description="smoothed sunspot number R12"),
@@ -41,12 +51,12 @@ NET = Record(fields={
     "title": Field(Text(max_len=120), doc="human title of the net"),
     "handling": Field(Text(max_len=60), required=False, doc="handling marking printed at top and bottom of every page and card"),
     "timezone": Field(Text(max_len=60), doc="IANA time zone for local-time columns, e.g. Europe/Berlin"),
-    "valid": Field(Record(fields={"from": Field(Date()), "to": Field(Date())}), doc="the period the plan is for"),
+    "valid": Field(Record(fields={"from": Field(VALID_DATE), "to": Field(VALID_DATE)}), doc="the period the plan is for"),
     "solar": Field(Record(fields={"ssn": Field(SOLAR_VALUE["ssn"], required=False), "f107": Field(SOLAR_VALUE["f107"], required=False)},
                           alternatives=(("ssn",), ("f107",))), doc="solar activity: {ssn: N}, {f107: N} or a range"),
     "net_address": Field(ADDRESS, required=False, doc="ALE net address"),
     "links": Field(ByShape(scalar=Choice(("hub", "all")),
-                           sequence=ListOf(ListOf(Slug(), min_items=2, max_items=2), min_items=1),
+                           sequence=ListOf(ListOf(Slug(), min_items=2, max_items=2), min_items=1, max_items=MAX_LINKS),
                            expected="hub, all, or a list of [station, station] pairs"),
                    doc="which links to predict: hub, all, or a list of pairs"),
     "base_url": Field(Text(max_len=300), required=False, doc="where the site will be published (used for QR codes)"),
@@ -83,7 +93,7 @@ STATION = Record(fields={
 CHANNEL = Record(fields={
     "id": Field(Text(pattern=r"[A-Za-z0-9]+(?:-[A-Za-z0-9]+)*", pattern_hint="a channel id: letters, digits and '-'", max_len=12)),
     "khz": Field(Number(0, 1_000_000, exclusive_minimum=True, unit="kHz"), doc="carrier / dial frequency"),
-    "mode": Field(Slug(), doc="usb, lsb, ale, data, cw, or a mode declared under modes"),
+    "mode": Field(Slug(max_len=MODE_ID_MAX), doc="usb, lsb, ale, data, cw, or a mode declared under modes"),
     "note": Field(Text(max_len=200), required=False),
     "hours": Field(ByShape(scalar=HOURS, sequence=ListOf(HOURS, min_items=1, max_items=6), expected="HH:MM-HH:MM or a list of them"),
                    required=False, doc="authorised hours, local time; outside them the channel is never scheduled"),
@@ -139,7 +149,8 @@ PLAN = Record(fields={
     "stations": Field(MapOf(STATION, min_items=1, max_items=2000), doc="station id -> station"),
     "channels": Field(ListOf(CHANNEL, min_items=1, max_items=500), doc="assigned channels, in card order"),
     "antennas": Field(MapOf(ANTENNA, min_items=1, max_items=2000), doc="antenna id -> antenna"),
-    "modes": Field(MapOf(MODE), required=False, doc="required SNR per mode, overriding or adding to the built-in ones"),
+    "modes": Field(MapOf(MODE, key_max_len=MODE_ID_MAX), required=False,
+                   doc="required SNR per mode, overriding or adding to the built-in ones"),
 }, description="planpack net plan, format version 1")
 
 

@@ -157,9 +157,9 @@ class Text(Type):
 SLUG_PATTERN = r"[a-z0-9]+(?:-[a-z0-9]+)*"
 
 
-def Slug(description: str = "") -> Text:
+def Slug(description: str = "", max_len: int = 40) -> Text:
     return Text(pattern=SLUG_PATTERN, pattern_hint="a slug: lowercase letters, digits and single '-' between them (e.g. 'north-ridge')",
-                max_len=40, description=description)
+                max_len=max_len, description=description)
 
 
 @dataclass
@@ -269,6 +269,8 @@ class Choice(Type):
 @dataclass
 class Date(Type):
     description: str = ""
+    minimum: _dt.date | None = None
+    maximum: _dt.date | None = None
 
     def read(self, node, path, ctx):
         s = self._scalar(node, path, ctx, "a date YYYY-MM-DD")
@@ -278,12 +280,19 @@ class Date(Type):
         if not m:
             return ctx.error("bad-date", path, f"expected a date YYYY-MM-DD, got {describe(s)}", s)
         try:
-            return _dt.date(int(m[1]), int(m[2]), int(m[3]))
+            value = _dt.date(int(m[1]), int(m[2]), int(m[3]))
         except ValueError as exc:
             return ctx.error("bad-date", path, f"expected a date YYYY-MM-DD, got {s.raw}: {exc}", s)
+        if (self.minimum and value < self.minimum) or (self.maximum and value > self.maximum):
+            return ctx.error("out-of-range", path, f"expected a date from {self.minimum} to {self.maximum}, got {value}"
+                             + (f" ({self.description})" if self.description else ""), s)
+        return value
 
     def json_schema(self):
-        return {"type": "string", "pattern": r"^[0-9]{4}-[0-9]{2}-[0-9]{2}$", "description": self.description or "a date YYYY-MM-DD"}
+        out = {"type": "string", "pattern": r"^[0-9]{4}-[0-9]{2}-[0-9]{2}$", "description": self.description or "a date YYYY-MM-DD"}
+        if self.minimum or self.maximum:
+            out["description"] += f" (from {self.minimum} to {self.maximum})"
+        return out
 
 
 @dataclass
@@ -411,6 +420,7 @@ class MapOf(Type):
     min_items: int = 0
     max_items: int = 5_000
     description: str = ""
+    key_max_len: int = 40  # ids longer than this cannot be printed where they are shown (cards)
 
     def read(self, node, path, ctx):
         if not isinstance(node, Mapping):
@@ -421,7 +431,7 @@ class MapOf(Type):
             return ctx.error("out-of-range", path, f"expected at most {self.max_items} entries, got {len(node.entries)}", node)
         result = {}
         bad = False
-        slug = Slug()
+        slug = Slug(max_len=self.key_max_len)
         for key, (knode, vnode) in node.entries.items():
             sub = f"{path}.{key}"
             surprise = text_surprise(knode.raw) if knode.plain else None
@@ -443,7 +453,7 @@ class MapOf(Type):
         return INVALID if bad else result
 
     def json_schema(self):
-        out = {"type": "object", "propertyNames": {"pattern": "^(?:" + SLUG_PATTERN + ")$", "maxLength": 40},
+        out = {"type": "object", "propertyNames": {"pattern": "^(?:" + SLUG_PATTERN + ")$", "maxLength": self.key_max_len},
                "additionalProperties": self.value.json_schema()}
         if self.min_items:
             out["minProperties"] = self.min_items

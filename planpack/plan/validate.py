@@ -14,7 +14,7 @@ import zoneinfo
 from itertools import combinations
 
 from planpack import localtime
-from planpack.plan import locator
+from planpack.plan import bounds, locator
 from planpack.plan.diagnostics import Collector
 from planpack.plan.models import Antenna, Channel, Feedline, Ground, Net, Plan, Position, Solar, Station
 from planpack.plan.modes import BUILTIN_MODES, Mode
@@ -26,6 +26,8 @@ HF_LOW_KHZ = 1500.0
 HF_HIGH_KHZ = 30000.0
 MIN_SPACING_KHZ = 3.0
 ALE_MAX_CHARS = 15  # MIL-STD-188-141 appendix A: up to five 3-character words
+MAX_COMPARISONS = 40_000  # names compared for "did you mean" hints in one plan (difflib is slow on thousands)
+MAX_LISTED = 20  # the known ids are listed only when there are few
 _ALE_CHARS = re.compile(r"[A-Z0-9]+\Z")
 # The whole URL, not only its start: the site and the QR codes use it as written, and append
 # '<net id>/' to it, so it is a folder: no user@ before the host, no ?query or #fragment.
@@ -38,6 +40,8 @@ class Semantics:
         self.d = data
         self.ctx = ctx
         self.root = root
+        self._near: dict[int, dict[str, str]] = {}
+        self._compared = 0
 
     # -- helpers ---------------------------------------------------------
     def at(self, path: str) -> Node:
@@ -50,8 +54,20 @@ class Semantics:
         self.ctx.out.warning(code, path, f"{path}: {message}", self.at(node_path or path))
 
     def near(self, value: str, options) -> str:
-        m = difflib.get_close_matches(value, list(options), n=1, cutoff=0.5)
-        return f"; did you mean '{m[0]}'?" if m else (f"; known: {', '.join(sorted(options))}" if options else "")
+        """A "did you mean" hint: computed once per distinct unknown name, within MAX_COMPARISONS a plan."""
+        memo = self._near.setdefault(id(options), {})
+        if value not in memo:
+            if self._compared + len(options) > MAX_COMPARISONS:
+                return ""  # enough hints given; the error itself still names the id
+            self._compared += len(options)
+            m = difflib.get_close_matches(value, list(options), n=1, cutoff=0.5)
+            if m:
+                memo[value] = f"; did you mean '{m[0]}'?"
+            elif 0 < len(options) <= MAX_LISTED:
+                memo[value] = f"; known: {', '.join(sorted(options))}"
+            else:
+                memo[value] = ""
+        return memo[value]
 
     # -- checks ----------------------------------------------------------
     def address(self, path: str, value: str) -> bool:
@@ -206,12 +222,20 @@ class Semantics:
             if aid not in used:
                 self.warning("unused-antenna", p, "no station uses this antenna", f"{p}#key")
 
+    def size(self) -> None:
+        """What the plan asks the analysis to do, within planpack's bounds (planpack/plan/bounds.py)."""
+        if self.ctx.out.has_errors:
+            return  # counts of a broken plan mean little
+        for path, message in bounds.problems(self.d):
+            self.error("plan-too-large", path, message)
+
     def run(self) -> None:
         self.net()
         self.stations()
         self.links()
         self.channels()
         self.antennas()
+        self.size()
 
 
 def parse_hours(text: str) -> tuple[int, int] | None:

@@ -3,7 +3,8 @@
 PyYAML's safe parser produces events; this module builds its own small tree
 from them, iteratively, so that it can bound depth, aliases and size, refuse
 duplicate keys (plain PyYAML keeps the last one silently) and keep every
-scalar's raw text and quoting. Scalars are *not* typed here: the schema knows
+scalar's raw text and quoting. YAML merge keys (``<<``) are refused with a
+hint, since readers disagree on them. Scalars are *not* typed here: the schema knows
 what each key expects and types the raw text by YAML 1.2 rules, flagging the
 places where YAML 1.1 tools would read the same text differently.
 """
@@ -160,19 +161,16 @@ def _build(events, out: Collector) -> Node | None:
                     f"{where}: duplicate key '{key}' (first at line {first.line}); YAML readers keep only one of them silently — remove or rename one",
                     pending.line, pending.col)
         elif key == "<<" and pending.plain:
-            _merge(parent, node, pending)
+            # YAML 1.1 merge keys: PyYAML, editors and other readers disagree on lists of merges, mappings
+            # merged in place and keys overridden after a merge, so a plan does not use them
+            out.add("error", "yaml-merge-key", paths[-1],
+                    f"{paths[-1] + ': ' if paths[-1] else ''}a YAML merge key '<<': YAML readers disagree on what "
+                    "it merges (a list of aliases, a mapping in place, a key written again after it), so plans do "
+                    "not use it; write the keys out in full (an alias of a whole value, such as feedline: *coax, "
+                    "still works)", pending.line, pending.col)
         else:
             parent.entries[key] = (pending, node)
         stack[-1] = (parent, None)
-
-    def _merge(target: Mapping, value: Node, key: Scalar) -> None:
-        sources = value.items if isinstance(value, Sequence) else [value]
-        for src in sources:
-            if not isinstance(src, Mapping):
-                out.add("error", "wrong-type", "<<", "a merge key '<<' must name a mapping (an alias like *defaults)", src.line, src.col)
-                continue
-            for k, pair in src.entries.items():
-                target.entries.setdefault(k, pair)
 
     for ev in events:
         if isinstance(ev, (yaml.StreamStartEvent, yaml.StreamEndEvent)):
@@ -222,8 +220,9 @@ def _build(events, out: Collector) -> Node | None:
             node = Mapping(line, col) if isinstance(ev, yaml.MappingStartEvent) else Sequence(line, col)
             if ev.anchor:
                 anchors[ev.anchor] = node
-            paths.append(_child_path(stack, paths))
-            attach(node)
+            child = _child_path(stack, paths)  # before attach() clears the pending key
+            attach(node)  # messages in attach() name the parent's path
+            paths.append(child)
             stack.append((node, None))
         elif isinstance(ev, (yaml.MappingEndEvent, yaml.SequenceEndEvent)):
             stack.pop()

@@ -6,5 +6,5 @@ holds) and never recompute physics:
 - :mod:`planpack.publish.site` turns compiled plans into ``{relative path: bytes}``;
 - :mod:`planpack.publish.charts` draws the SVG charts for it;
 - :mod:`planpack.publish.output` swaps a finished tree into the output folder whole;
-- :mod:`planpack.publish.commands` adds ``planpack build`` to the command line.
+- :mod:`planpack.publish.pipeline` compiles plans for publishing and renders only what changed.
 """

@@ -9,10 +9,15 @@ interrupted swap is repaired by the next run. Either way a failed or killed
 build leaves the previous site whole, and the next run removes what it left.
 
 It refuses to replace what it did not make: a non-empty folder without the
-marker needs ``force``; the file-system root, the home folder, a folder that
-holds the current directory, a git work tree, or a folder holding the plans
-being read are never replaced. A lock file beside ``DIR`` serialises builds
-into the same folder.
+marker needs ``force``; the file-system root, a folder that holds the home
+folder, the current directory, a git work tree (anywhere below it) or the
+plans being read is never replaced. A lock file beside ``DIR`` serialises
+builds into the same folder.
+
+When ``DIR`` already holds exactly the files a build would write (byte for
+byte, with the marker), nothing is written at all; and
+:func:`read_previous` reads files of the previous site back, without
+following a link, so that unchanged parts need not be rendered again.
 """
 
 from __future__ import annotations
@@ -23,17 +28,19 @@ import errno
 import fcntl
 import os
 import shutil
+import stat
 import tempfile
 import time
 from collections.abc import Iterable, Mapping
 from pathlib import Path
 
-from planpack.cli import UsageError
+from planpack.errors import UsageError
 
 MARKER = ".planpack-site"
 MARKER_TEXT = (b"This folder was written by planpack build.\n"
                b"planpack replaces it whole on every build: anything else put here is lost.\n")
 LOCK_WAIT_S = 60.0
+MAX_FILE_BYTES = 256 * 1024 * 1024  # a file of the previous site read back; larger ones are rendered again
 
 
 class OutputError(UsageError):
@@ -79,17 +86,27 @@ def _is_within(child: Path, parent: Path) -> bool:
         return False
 
 
+def _git_work_tree_below(root: Path) -> Path | None:
+    """The first folder at or below ``root`` that holds ``.git`` (a work tree or a repository); links not followed."""
+    for dirpath, dirnames, filenames in os.walk(root, followlinks=False, onerror=lambda exc: None):
+        if ".git" in dirnames or ".git" in filenames:
+            return Path(dirpath)
+        dirnames.sort()
+    return None
+
+
 def check_target(out: Path, *, force: bool, protect: Iterable[str] = ()) -> None:
     """Raise OutputError when out may not be replaced."""
     real = Path(os.path.realpath(out))
     never = "planpack never replaces this folder, even with --force; choose an empty or new folder"
     if real == Path(real.anchor):
         raise OutputError(f"--out {out}: is the root of the file system; {never}")
-    home = os.path.expanduser("~")
-    if home not in ("~", "/") and real == Path(os.path.realpath(home)):
-        raise OutputError(f"--out {out}: is your home folder; {never}")
     if _is_within(Path(os.path.realpath(os.getcwd())), real):
         raise OutputError(f"--out {out}: holds the current folder; {never}")
+    home = os.path.expanduser("~")
+    if home not in ("~", "/", "") and _is_within(Path(os.path.realpath(home)), real):
+        what = "is your home folder" if real == Path(os.path.realpath(home)) else f"holds your home folder {home}"
+        raise OutputError(f"--out {out}: {what}; {never}")
     for p in protect:
         if _is_within(Path(os.path.realpath(p)), real):
             raise OutputError(f"--out {out}: holds the plan {p} being read; {never}")
@@ -99,12 +116,15 @@ def check_target(out: Path, *, force: bool, protect: Iterable[str] = ()) -> None
         return
     if not os.path.isdir(out):
         raise OutputError(f"--out {out}: exists and is not a folder")
-    if os.path.lexists(out / ".git"):
-        raise OutputError(f"--out {out}: is a git work tree; {never}")
     try:
         entries = os.listdir(out)
     except OSError as exc:
         raise _os_error(exc, out) from None
+    if entries:
+        tree = _git_work_tree_below(out)
+        if tree is not None:
+            what = "is a git work tree" if tree == out else f"holds the git work tree {tree}"
+            raise OutputError(f"--out {out}: {what}; {never}")
     marker = out / MARKER
     if entries and not (marker.is_file() and not marker.is_symlink()) and not force:
         raise OutputError(f"--out {out}: is not empty and was not made by planpack (no {MARKER} file in it); "
@@ -259,6 +279,8 @@ def publish(files: Mapping[str, bytes], out_dir: str | os.PathLike, *, force: bo
         except OSError as exc:
             raise _os_error(exc, out) from None
         check_target(out, force=force, protect=protect)  # again, now that nobody else writes
+        if holds_exactly(out, files):
+            return out  # nothing to write: the folder already is this site
         try:
             tmp = Path(tempfile.mkdtemp(prefix=_tmp_prefix(out), dir=out.parent))
         except OSError as exc:
@@ -273,6 +295,124 @@ def publish(files: Mapping[str, bytes], out_dir: str | os.PathLike, *, force: bo
             _cleanup(tmp)
             raise
     return out
+
+
+def _open_below(root_fd: int, rel: str) -> int:
+    """A descriptor of the regular file ``rel`` below the folder ``root_fd``; no component may be a link."""
+    parts = rel.split("/")
+    fd = root_fd
+    try:
+        for part in parts[:-1]:
+            nxt = os.open(part, os.O_RDONLY | os.O_DIRECTORY | os.O_NOFOLLOW | os.O_CLOEXEC, dir_fd=fd)
+            if fd != root_fd:
+                os.close(fd)
+            fd = nxt
+        return os.open(parts[-1], os.O_RDONLY | os.O_NOFOLLOW | os.O_NONBLOCK | os.O_CLOEXEC, dir_fd=fd)
+    finally:
+        if fd != root_fd:
+            os.close(fd)
+
+
+def _read_fd(fd: int, limit: int) -> bytes | None:
+    st = os.fstat(fd)
+    if not stat.S_ISREG(st.st_mode) or st.st_size > limit:
+        return None
+    with os.fdopen(os.dup(fd), "rb") as fh:
+        data = fh.read(limit + 1)
+    return data if len(data) <= limit else None
+
+
+def _open_site(out: Path) -> int | None:
+    """A descriptor of ``out`` when it is a real folder with planpack's marker (a site planpack wrote); else None."""
+    try:
+        fd = os.open(out, os.O_RDONLY | os.O_DIRECTORY | os.O_NOFOLLOW | os.O_CLOEXEC)
+    except OSError:
+        return None
+    try:
+        mfd = os.open(MARKER, os.O_RDONLY | os.O_NOFOLLOW | os.O_NONBLOCK | os.O_CLOEXEC, dir_fd=fd)
+    except OSError:
+        os.close(fd)
+        return None
+    try:
+        if _read_fd(mfd, len(MARKER_TEXT)) != MARKER_TEXT:
+            os.close(fd)
+            return None
+    except OSError:
+        os.close(fd)
+        return None
+    finally:
+        os.close(mfd)
+    return fd
+
+
+def read_previous(out_dir: str | os.PathLike, paths: Iterable[str]) -> dict[str, bytes] | None:
+    """The bytes of ``paths`` in the site planpack wrote at ``out_dir``; None when any cannot be read.
+
+    Only a real folder holding planpack's marker is read; every path must be
+    plain and relative, and no folder or file on the way may be a link.
+    """
+    out = Path(os.path.abspath(out_dir))
+    root = _open_site(out)
+    if root is None:
+        return None
+    found: dict[str, bytes] = {}
+    try:
+        for rel in paths:
+            try:
+                check_relative(rel)
+            except ValueError:
+                return None
+            try:
+                fd = _open_below(root, rel)
+            except OSError:
+                return None
+            try:
+                data = _read_fd(fd, MAX_FILE_BYTES)
+            except OSError:
+                data = None
+            finally:
+                os.close(fd)
+            if data is None:
+                return None
+            found[rel] = data
+    finally:
+        os.close(root)
+    return found
+
+
+def holds_exactly(out: Path, files: Mapping[str, bytes]) -> bool:
+    """Whether the site at ``out`` is these files byte for byte (and nothing else but the marker)."""
+    root = _open_site(out)
+    if root is None:
+        return False
+    try:
+        seen = 0
+        for dirpath, dirnames, filenames, dfd in os.fwalk(".", dir_fd=root, follow_symlinks=False):
+            for name in filenames:
+                rel = os.path.normpath(os.path.join(dirpath, name))
+                if rel == MARKER:
+                    continue
+                want = files.get(rel)
+                if want is None:
+                    return False
+                try:
+                    fd = os.open(name, os.O_RDONLY | os.O_NOFOLLOW | os.O_NONBLOCK | os.O_CLOEXEC, dir_fd=dfd)
+                except OSError:
+                    return False
+                try:
+                    if _read_fd(fd, len(want)) != want:
+                        return False
+                finally:
+                    os.close(fd)
+                seen += 1
+            for name in dirnames:
+                if stat.S_ISLNK(os.stat(name, dir_fd=dfd, follow_symlinks=False).st_mode):
+                    return False  # fwalk lists a link to a folder among the folders (and does not enter it)
+        return seen == len(files)
+    except OSError:
+        return False
+    finally:
+        os.close(root)
 
 
 def _cleanup(tmp: Path) -> None:

@@ -25,6 +25,8 @@ import threading
 import time
 from pathlib import Path
 
+from planpack.errors import UsageError
+
 PREVIEW_DIR = "_preview"
 VERSION_PATH = f"/{PREVIEW_DIR}/version"
 RELOAD_JS = """\
@@ -91,28 +93,24 @@ class BuildFailed(Exception):
 
 def _site_files(args: list[str], use_cache: bool) -> tuple[dict[str, bytes], int]:
     """The site of the plans as {path: bytes} and the number of warnings; raises BuildFailed."""
-    from planpack import cli
-    from planpack.workflow.cache import cached_compile
+    from planpack.plan import plan_files, read_plan
+    from planpack.publish import pipeline
 
-    try:
-        results = cli.read_all(args)
-    except cli.UsageError as exc:
-        raise BuildFailed("The plans cannot be read", [str(exc)]) from None
+    files, problems = plan_files(args)
+    if problems:
+        raise BuildFailed("The plans cannot be read", problems)
+    results = [read_plan(f) for f in files]
     diags = [d for r in results for d in r.diagnostics]
     if any(not r.ok for r in results):
         raise BuildFailed("The plan has errors", [d.format() for d in diags])
-    compiled = []
-    for r in results:
-        c = cached_compile(r.plan, enabled=use_cache)
-        compiled.append((r, c))
-        diags += list(c.diagnostics)
+    try:
+        compiled = pipeline.compile_results(results, use_cache=use_cache)
+    except UsageError as exc:
+        raise BuildFailed("The plans cannot be built together", [str(exc)]) from None
+    diags += [d for _, c in compiled for d in c.diagnostics]
     errors = [d for d in diags if d.severity == "error"]
     if errors:
         raise BuildFailed("The plan has errors", [d.format() for d in errors])
-    ids = [c.data["net"]["id"] for _, c in compiled]
-    dup = sorted({i for i in ids if ids.count(i) > 1})
-    if dup:
-        raise BuildFailed("Two plans share a net id", [f"net id {', '.join(dup)} is used by more than one plan"])
     try:
         from planpack.publish import site
     except ImportError:
@@ -271,6 +269,9 @@ def handler_for(preview: Preview, port_box: list[int]):
                 self._send(421, "text/plain; charset=utf-8", b"planpack serve answers 127.0.0.1 only\n", head_only)
                 return
             path = self.path.split("?", 1)[0].split("#", 1)[0]
+            if not _plain_request_path(path):
+                self._send(400, "text/plain; charset=utf-8", b"planpack serve: not a path it serves\n", head_only)
+                return
             with preview.lock:
                 version, failure = preview.version, preview.failure
             if path == VERSION_PATH:
@@ -280,10 +281,13 @@ def handler_for(preview: Preview, port_box: list[int]):
             if failure is not None and is_page and not path.startswith(f"/{PREVIEW_DIR}/"):
                 self._send(200, "text/html; charset=utf-8", error_page(failure, version), head_only)
                 return
-            if head_only:
-                super().do_HEAD()
-            else:
-                super().do_GET()
+            try:
+                if head_only:
+                    super().do_HEAD()
+                else:
+                    super().do_GET()
+            except ValueError:  # a path the file system cannot name; nothing was sent yet
+                self._send(400, "text/plain; charset=utf-8", b"planpack serve: not a path it serves\n", head_only)
 
         def do_GET(self):  # noqa: N802 - http.server's names
             self._route(False)
@@ -294,16 +298,38 @@ def handler_for(preview: Preview, port_box: list[int]):
     return Handler
 
 
-def start_server(preview: Preview, port: int) -> tuple[http.server.ThreadingHTTPServer, threading.Thread]:
-    from planpack.cli import UsageError
+def _plain_request_path(path: str) -> bool:
+    """A request path the preview answers: no NUL or control characters once %-decoded, not too long."""
+    from urllib.parse import unquote
 
+    try:
+        decoded = unquote(path, errors="strict")
+    except UnicodeDecodeError:
+        return False
+    return len(decoded) <= 1024 and not any(ord(c) < 32 or ord(c) == 127 for c in decoded)
+
+
+class PreviewServer(http.server.ThreadingHTTPServer):
+    """The threading HTTP server, with one line instead of a traceback when a request fails."""
+
+    daemon_threads = True
+    log = staticmethod(lambda text: print(f"planpack: {text}", file=sys.stderr, flush=True))
+
+    def handle_error(self, request, client_address) -> None:
+        exc = sys.exc_info()[1]
+        if isinstance(exc, (ConnectionError, TimeoutError)):
+            return  # a browser that reloads or closes a tab drops its connection: nothing to report
+        self.log(f"a request failed ({type(exc).__name__}: {exc}); the preview goes on")
+
+
+def start_server(preview: Preview, port: int) -> tuple[http.server.ThreadingHTTPServer, threading.Thread]:
     port_box = [port]
     try:
-        server = http.server.ThreadingHTTPServer(("127.0.0.1", port), handler_for(preview, port_box))
+        server = PreviewServer(("127.0.0.1", port), handler_for(preview, port_box))
     except OSError as exc:
         raise UsageError(f"cannot listen on 127.0.0.1:{port}: {exc.strerror or exc}; "
                          "choose another --port (0 picks a free one)") from None
-    server.daemon_threads = True
+    server.log = preview.log
     port_box[0] = server.server_address[1]
     thread = threading.Thread(target=server.serve_forever, kwargs={"poll_interval": 0.2}, daemon=True,
                               name="planpack-serve")
@@ -313,9 +339,7 @@ def start_server(preview: Preview, port: int) -> tuple[http.server.ThreadingHTTP
 
 def run(plans: list[str], port: int = 8000, interval_s: float = 0.5, use_cache: bool = True,
         stop: threading.Event | None = None) -> int:
-    """Build, serve and watch until Ctrl-C (or ``stop`` is set); returns the exit code."""
-    from planpack.cli import EXIT_OK, UsageError
-
+    """Build, serve and watch until Ctrl-C (or ``stop`` is set); returns the exit code (0)."""
     interval_s = min(max(interval_s, 0.05), 10.0)
     missing = [p for p in plans if not os.path.exists(p)]
     if missing:
@@ -345,7 +369,7 @@ def run(plans: list[str], port: int = 8000, interval_s: float = 0.5, use_cache: 
             server.server_close()
         preview.close()
         restore()
-    return EXIT_OK
+    return 0
 
 
 def _stop_on_sigterm():

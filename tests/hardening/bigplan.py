@@ -73,3 +73,12 @@ def big_plan(stations: int = 500, channels: int = 200) -> str:
         "    resistor_ohm: 800", "    transformer_ratio: 16",
     ]
     return "\n".join(lines) + "\n"
+
+
+def mesh_plan(stations: int = 60, channels: int = 40) -> str:
+    """YAML text of an all-pairs net (``links: all``): stations spread over about 400 km, ``channels`` channels.
+
+    With 60 stations it is the size of the prediction benchmark's largest case (1770 links).
+    """
+    text = big_plan(stations, channels).replace("  links: hub\n", "  links: all\n")
+    return text.replace("    role: control\n", "", 1)

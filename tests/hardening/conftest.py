@@ -72,10 +72,10 @@ WRAPPER = textwrap.dedent("""
 """)
 
 
-# The compile cache (planpack/workflow/cache.py) keeps its entries beside the plan unless told
-# otherwise; the hardening tests give it one folder of its own, away from the folders they watch.
+# The cache (planpack/workflow/cachedir.py) lives in the user's cache folder unless told otherwise;
+# the hardening tests give it one folder of their own, away from the folders they watch.
 CACHE_DIR = tempfile.mkdtemp(prefix="planpack-hardening-cache-")
-CACHE_NAMES = (".planpack-cache",)  # its default folder name, never a path a plan can choose
+CACHE_NAMES = (".planpack-cache",)  # the folder name older versions wrote beside a plan; never read now
 
 
 def env(**extra: str) -> dict:

@@ -2,28 +2,18 @@
 
 from __future__ import annotations
 
-import argparse
 import os
 
 import pytest
 
 from planpack import cli
-from planpack.publish import cards_command
 
 REPO = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
 PLAN = os.path.join(REPO, "plans", "danube-relief.yaml")
 
 
 def run(argv: list[str]) -> int:
-    p = argparse.ArgumentParser(prog="planpack")
-    sub = p.add_subparsers(dest="command")
-    cards_command.register(sub)
-    args = p.parse_args(argv)
-    try:
-        return args.func(args)
-    except cli.UsageError as exc:  # as cli.main does
-        print(f"planpack: {exc}")
-        return cli.EXIT_USAGE
+    return cli.main(argv)
 
 
 @pytest.fixture(scope="module")

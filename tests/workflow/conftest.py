@@ -2,9 +2,6 @@
 
 from __future__ import annotations
 
-import argparse
-import contextlib
-import io
 import os
 import subprocess
 import sys
@@ -36,41 +33,8 @@ def write(folder: Path, name: str, text: str) -> Path:
     return path
 
 
-def hooked() -> bool:
-    """Whether ``planpack.cli`` registers the workflow commands yet."""
-    from planpack import cli
-
-    for action in cli.build_parser()._actions:
-        if isinstance(action, argparse._SubParsersAction):
-            return "diff" in action.choices
-    return False
-
-
 def run_cli(argv: list[str], cwd: Path) -> tuple[int, str, str]:
-    """Run ``planpack ARGV`` in ``cwd``: the real ``python -m planpack`` once the commands are hooked
-    into planpack.cli, until then the workflow commands' own parser in this process."""
-    if hooked():
-        r = subprocess.run([sys.executable, "-m", "planpack", *argv], cwd=cwd, capture_output=True, text=True,
-                           timeout=300, env={**os.environ, "PYTHONPATH": str(REPO), "NO_COLOR": "1"})
-        return r.returncode, r.stdout, r.stderr
-    from planpack import cli
-    from planpack.workflow import commands
-
-    parser = argparse.ArgumentParser(prog="planpack")
-    commands.register(parser.add_subparsers(dest="command", required=True))
-    out, err = io.StringIO(), io.StringIO()
-    here = os.getcwd()
-    os.chdir(cwd)
-    try:
-        with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
-            try:
-                args = parser.parse_args(argv)
-                code = args.func(args)
-            except SystemExit as exc:
-                code = int(exc.code or 0)
-            except cli.UsageError as exc:
-                print(f"planpack: {exc}", file=sys.stderr)
-                code = cli.EXIT_USAGE
-    finally:
-        os.chdir(here)
-    return code, out.getvalue(), err.getvalue()
+    """Run the real ``python -m planpack ARGV`` in ``cwd``."""
+    r = subprocess.run([sys.executable, "-m", "planpack", *argv], cwd=cwd, capture_output=True, text=True,
+                       timeout=300, env={**os.environ, "PYTHONPATH": str(REPO), "NO_COLOR": "1"})
+    return r.returncode, r.stdout, r.stderr

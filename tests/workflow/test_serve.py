@@ -14,30 +14,13 @@ import urllib.error
 import urllib.request
 
 import pytest
-from tests.workflow.conftest import REPO, hooked, write
+from tests.workflow.conftest import REPO, write
 from tests.workflow.plans import TINY, variant
 
 WAIT_S = 90  # every wait is bounded; a compile of the tiny plan takes about a second
 
-LAUNCHER = """
-import argparse, sys
-from planpack import cli
-from planpack.workflow import commands
-p = argparse.ArgumentParser(prog="planpack")
-commands.register(p.add_subparsers(dest="command", required=True))
-a = p.parse_args(sys.argv[1:])
-try:
-    sys.exit(a.func(a))
-except cli.UsageError as e:
-    print(f"planpack: {e}", file=sys.stderr)
-    sys.exit(2)
-"""
-
-
 def _command(args: list[str]) -> list[str]:
-    if hooked():
-        return [sys.executable, "-m", "planpack", *args]
-    return [sys.executable, "-c", LAUNCHER, *args]
+    return [sys.executable, "-m", "planpack", *args]
 
 
 def fetch(url: str, host: str | None = None) -> tuple[int, str, dict]:
@@ -193,3 +176,49 @@ def test_sigterm_stops_cleanly_too(server):
     assert proc.wait(timeout=30) == 0
     wait_for(lambda: "planpack: stopped" in "".join(log), "the stop message")
     assert list(tmp.iterdir()) == []
+
+
+def _raw(base: str, request: bytes, read: bool = True, reset: bool = False) -> bytes:
+    """Send raw bytes to the server; read the answer, or drop the connection at once (reset: with an RST)."""
+    import socket
+    import struct
+
+    host, port = re.match(r"http://([\d.]+):(\d+)/", base).groups()
+    s = socket.create_connection((host, int(port)), timeout=10)
+    try:
+        s.sendall(request)
+        if reset:
+            s.setsockopt(socket.SOL_SOCKET, socket.SO_LINGER, struct.pack("ii", 1, 0))
+            return b""
+        if not read:
+            return b""
+        chunks = []
+        while True:
+            try:
+                chunk = s.recv(65536)
+            except (ConnectionError, TimeoutError):
+                break
+            if not chunk:
+                break
+            chunks.append(chunk)
+        return b"".join(chunks)
+    finally:
+        s.close()
+
+
+def test_odd_requests_and_dropped_clients_print_no_traceback(server):
+    """Finding 9: a NUL in the path gave a ValueError traceback and no answer; a client that went away
+    (a browser reload) gave a BrokenPipeError traceback."""
+    proc, base, plans, tmp, log = server
+    port = re.search(r":(\d+)/", base).group(1)
+    host = f"Host: 127.0.0.1:{port}\r\n".encode()
+    for path in (b"/index.html%00.png", b"/tiny-net/%00", b"/%0a%0dx.html", b"/%ff%fe.html", b"/" + b"a" * 5000):
+        answer = _raw(base, b"GET " + path + b" HTTP/1.1\r\n" + host + b"Connection: close\r\n\r\n")
+        assert answer.startswith((b"HTTP/1.0 4", b"HTTP/1.1 4")), (path[:40], answer[:200])
+    for _ in range(15):  # clients that ask for a page and go away before it is sent
+        _raw(base, b"GET /tiny-net/plan.json HTTP/1.1\r\n" + host + b"\r\n", reset=True)
+        _raw(base, b"GET /tiny-net/index.html HTTP/1.1\r\n" + host + b"\r\n", read=False)
+    _raw(base, b"GET /tiny-net/index.html HTTP/1.1\r\n" + host, read=False)  # a request cut short
+    assert fetch(base + "tiny-net/index.html")[0] == 200  # still serving
+    time.sleep(0.5)
+    assert "Traceback" not in "".join(log), "".join(log)[-3000:]
