@@ -133,6 +133,9 @@ def build_parser() -> argparse.ArgumentParser:
     from planpack.workflow import commands as workflow_commands
 
     workflow_commands.register(sub)
+    from planpack.commands import request as request_command
+
+    request_command.add_parser(sub)
     return p
 
 

@@ -291,7 +291,8 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
         extra = f"; a channel between {win[0]:.1f} and {win[1]:.1f} MHz would"
     else:
         extra = "; no single frequency would serve them all at those hours: request channels per link or split the net"
-    message = f"no assigned channel serves {pretty} {local} local ({utc} UTC){extra}"
+    message = (f"no assigned channel serves {pretty} {local} local ({utc} UTC){extra}; "
+               "'planpack request PLAN' proposes the fewest new frequencies to ask for")
     out.warning("channel-gap", "channels", f"channels: {message}", _At(*plan.where("channels")))
     return {
         "links": names, "utc_hours": hours, "local_hours": [labels[h] for h in hours],

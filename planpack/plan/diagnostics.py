@@ -65,6 +65,7 @@ CODES: dict[str, str] = {
     "bad-link": "a link that joins a station to itself, or twice",
     "unused-antenna": "an antenna that no station uses",
     "unknown-mode": "a channel mode that is neither built in nor declared",
+    "bad-request": "a request section whose bands, exclusions or step leave nothing to ask for",
     # analysis results reported by check (filled in by later passes)
     "channel-gap": "hours where no assigned channel serves a link",
     "swr-high": "an antenna's SWR above 3:1 on an assigned channel",
