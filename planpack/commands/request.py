@@ -78,6 +78,9 @@ def add_parser(subparsers) -> None:
     r.add_argument("--mode", metavar="MODE", help="mode of the new channels (overrides request.mode)")
     r.add_argument("--step", type=_positive(float, "a spacing above 0 kHz"), metavar="KHZ",
                    help="candidate spacing in kHz (overrides request.step_khz; default 25)")
+    r.add_argument("--time-limit", type=_positive(float, "a number of seconds above 0"), default=60.0, metavar="S",
+                   help="seconds for all the solver's work (default 60); what it cannot prove by then is reported "
+                        "as not proven optimal")
     r.add_argument("--jobs", type=_positive(int, "a whole number of processes, 1 or more"), metavar="N",
                    help="processes for the candidate predictions (default: by the size of the plan)")
     r.add_argument("-q", "--quiet", action="store_true", help="no progress on stderr")
@@ -122,7 +125,7 @@ def run(args) -> int:
     pred = predict_links(plan, setup)
     try:
         data = plan_requests(plan, setup, pred, max_new=args.max_new, bands_khz=args.bands, exclude_khz=args.exclude,
-                             mode=args.mode, step_khz=args.step, workers=args.jobs,
+                             mode=args.mode, step_khz=args.step, workers=args.jobs, time_limit=args.time_limit,
                              progress=None if args.quiet else (lambda text: _say(args, text)))
     except candidates.GridError as exc:
         key = exc.key.split(".")[-1].split("[")[0]

@@ -78,7 +78,7 @@ class _Clock:
 
 def plan_requests(plan: Plan, setup, pred=None, *, max_new: int | None = None, bands_khz=None, exclude_khz=None,
                   mode: str | None = None, step_khz: float | None = None, workers: int | None = None,
-                  progress=None, timings: dict | None = None) -> dict:
+                  time_limit: float = optimise.TIME_LIMIT_S, progress=None, timings: dict | None = None) -> dict:
     """The frequency request of a plan: proposals, windows, before and after, what no frequency serves.
 
     Parameters
@@ -94,6 +94,8 @@ def plan_requests(plan: Plan, setup, pred=None, *, max_new: int | None = None, b
         Override the plan's ``request:`` section (bands and exclusions [kHz], step [kHz]).
     workers : int, optional
         Processes for the candidate predictions (default: by the size of the job).
+    time_limit : float
+        Seconds for all the solver's work; what it could not prove by then is reported as not optimal.
     progress : callable(str), optional
         Told what is being done.
     timings : dict, optional
@@ -143,10 +145,10 @@ def plan_requests(plan: Plan, setup, pred=None, *, max_new: int | None = None, b
     problem, row_of, col_map = _problem(serves, servable, cov.closes, gp, gp.need)
     clock.lap("build problem")
     say("solving the integer programme")
-    sol = optimise.fewest(problem)
+    sol = optimise.fewest(problem, time_limit)
     mode_used = "fewest"
     if max_new is not None and len(sol.chosen) > max_new:
-        sol = optimise.most(problem, max_new)
+        sol = optimise.most(problem, max_new, time_limit)
         mode_used = "most"
     chosen = sorted(int(col_map[c]) for c in sol.chosen)
     clock.lap("solve")
@@ -197,10 +199,11 @@ def plan_requests(plan: Plan, setup, pred=None, *, max_new: int | None = None, b
                     "left_out_pairs": int(left.size) if mode_used == "most" else 0, "utc_hours": list(after.hours)}
     worst_after = [p["worst_good_days"] for p in out["proposals"] if p["worst_good_days"] is not None]
     out["solver"] = {
-        **optimise.solver_info(), "mode": mode_used, "max_new": max_new,
+        **optimise.solver_info(time_limit), "mode": mode_used, "max_new": max_new,
         "status": "optimal" if sol.optimal else "not proven optimal", "optimal": bool(sol.optimal),
         "frequencies": len(chosen), "pairs_served": int(need_served[servable].sum()),
-        "pairs_servable": int(servable.sum()), "net_hours_closed": int(sol.bonus_weight),
+        "pairs_servable": int(servable.sum()),
+        "net_channel_hours": len({h for w in wins for h in w.net_hours}), "net_channel_gap_pairs": int(sol.bonus_weight),
         "worst_good_days": sol.worst,
         "problem": {"pairs": int(len(gp.need)), "rows": int(problem.shape[0]), "columns": int(problem.shape[1]),
                     "candidates": grid.size, "net_hour_groups": len(problem.bonus)},
@@ -339,11 +342,13 @@ def _skeleton(plan: Plan, pred, grid, mode_id: str, labels, offset: int) -> dict
 def _summary(out: dict, target: float) -> str:
     n = len(out["proposals"])
     b, a = out["before"], out["after"]
-    head = (f"Ask for {n} new frequenc{'y' if n == 1 else 'ies'}" if n else "No new frequency would serve any pair")
-    return (f"{head}: the plan's gaps go from {b['gap_hours']} to {a['gap_hours']} (link, hour) pairs, and the pairs "
-            f"without any channel reaching {100 * target:.0f} % of days from {b['unserved_pairs']} to "
-            f"{a['unserved_pairs']}; {len(out['unservable'])} link{'s' if len(out['unservable']) != 1 else ''}' "
-            f"hours cannot be served by any frequency." if out["unservable"] else
-            f"{head}: the plan's gaps go from {b['gap_hours']} to {a['gap_hours']} (link, hour) pairs, and the pairs "
-            f"without any channel reaching {100 * target:.0f} % of days from {b['unserved_pairs']} to "
+    never = sum(len(u["utc_hours"]) for u in out["unservable"])
+    head = f"Ask for {n} new frequenc{'y' if n == 1 else 'ies'}" if n else "No new frequency would serve any pair"
+    text = (f"{head}: the plan's gaps go from {b['gap_hours']} to {a['gap_hours']} (link, hour) pairs, and the pairs "
+            f"without any channel reaching {report.pct(target)} of days from {b['unserved_pairs']} to "
             f"{a['unserved_pairs']}.")
+    if never:
+        text += f" {never} pair{'s' if never != 1 else ''} cannot be served by any frequency (the reasons are listed)."
+    if not out["solver"]["optimal"]:
+        text += " The solver did not prove this optimal within its time limit."
+    return text

@@ -28,13 +28,17 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+import time
+
 import numpy as np
 import scipy
 from scipy import sparse
 from scipy.optimize import Bounds, LinearConstraint, milp
 
-#: Time limit of each solve [s]; a solve that stops there is reported as not proven optimal.
+#: Time for all the solves of one request [s]; a solve stopped by it is reported as not proven optimal.
 TIME_LIMIT_S = 60.0
+#: Below this many seconds left, no further solve is started.
+_MIN_SOLVE_S = 0.5
 #: Fractions of good days are compared in thousandths (plan.json's resolution).
 RESOLUTION = 1000
 
@@ -105,16 +109,29 @@ def quantised(value: sparse.csr_matrix) -> sparse.csr_matrix:
     return q
 
 
-def _solve(name: str, c, a_rows: list, lb: list, ub: list, integrality, n_vars: int, time_limit: float,
+class Deadline:
+    """The time left for the solves of one optimisation [s]."""
+
+    def __init__(self, seconds: float) -> None:
+        self.end = time.monotonic() + float(seconds)
+
+    def left(self) -> float:
+        return self.end - time.monotonic()
+
+
+def _solve(name: str, c, a_rows: list, lb: list, ub: list, integrality, n_vars: int, deadline: Deadline,
            question: bool = False):
     """One milp call; returns (x or None, Stage).
 
     ``question``: a yes/no solve (a bisection step), for which "infeasible" is a proven answer too.
     """
     a = sparse.vstack(a_rows, format="csr") if a_rows else None
+    if deadline.left() < _MIN_SOLVE_S:
+        return None, Stage(name=name, status="not run: the time limit was spent", optimal=False, objective=None,
+                           mip_gap=None, nodes=None, rows=0 if a is None else a.shape[0], columns=n_vars)
     cons = [LinearConstraint(a, np.concatenate(lb), np.concatenate(ub))] if a is not None else []
     res = milp(c=np.asarray(c, float), integrality=integrality, bounds=Bounds(0, 1), constraints=cons,
-               options={"time_limit": float(time_limit), "mip_rel_gap": 0.0, "disp": False})
+               options={"time_limit": deadline.left(), "mip_rel_gap": 0.0, "disp": False})
     status = _STATUS.get(res.status, f"status {res.status}")
     stage = Stage(name=name, status=status, optimal=res.status == 0 or (question and res.status == 2), objective=None if res.x is None else float(res.fun),
                   mip_gap=getattr(res, "mip_gap", None), nodes=getattr(res, "mip_node_count", None),
@@ -135,120 +152,197 @@ def _worst(q: sparse.csr_matrix, chosen: np.ndarray) -> int | None:
     return int(best[best > 0].min()) if (best > 0).any() else None
 
 
-def _bonus_rows(bonus, k: int):
-    """Constraint rows z_j - sum_{f in B_j} x_f <= 0 over variables [x (k), z (J)]."""
-    j = len(bonus)
-    m = sparse.lil_matrix((j, k + j))
-    for i, (_, cols) in enumerate(bonus):
-        m[i, np.asarray(cols, int)] = -1.0
-        m[i, k + i] = 1.0
-    return m.tocsr()
+def _bits(m: np.ndarray) -> np.ndarray:
+    """Rows of a bool matrix as packed 64-bit words, for fast subset tests."""
+    packed = np.packbits(m, axis=1)
+    pad = (-packed.shape[1]) % 8
+    if pad:
+        packed = np.pad(packed, ((0, 0), (0, pad)))
+    return np.ascontiguousarray(packed).view(np.uint64)
+
+
+def _reduce(sets: np.ndarray, keep_supersets: bool) -> np.ndarray:
+    """Indices (ascending) of the rows of a bool matrix that survive subset dominance.
+
+    keep_supersets=False keeps the minimal sets (a row containing another is implied by it: covering
+    the smaller set covers the larger); True keeps the maximal sets (a column inside another column
+    is never better). Identical rows keep their first.
+    """
+    if sets.shape[0] == 0:
+        return np.zeros(0, int)
+    words = _bits(sets)
+    _, first = np.unique(words, axis=0, return_index=True)
+    size = sets[first].sum(axis=1)
+    order = first[np.lexsort((first, -size if keep_supersets else size))]
+    kept = np.empty((order.size, words.shape[1]), np.uint64)
+    n = 0
+    out = []
+    for i in order:
+        w = words[i]
+        if n:
+            k = kept[:n]
+            inside = np.all((k & w) == w, axis=1) if keep_supersets else np.all((k & w) == k, axis=1)
+            if inside.any():
+                continue
+        kept[n] = w
+        n += 1
+        out.append(int(i))
+    return np.sort(np.asarray(out, int))
+
+
+def _membership(bonus, k: int) -> np.ndarray:
+    member = np.zeros((len(bonus), k), bool)
+    for g, (_, cols) in enumerate(bonus):
+        member[g, np.asarray(cols, int)] = True
+    return member
+
+
+def _cover(a, name: str, deadline: Deadline, *, bonus=(), objective: str = "count",
+           n_max: int | None = None, bonus_min: float | None = None, question: bool = False):
+    """A cover programme over the 0/1 matrix ``a`` (rows x k), reduced by dominance first.
+
+    objective "count": fewest columns; "bonus": most bonus weight. Constraints: every row covered;
+    with n_max at most that many columns; with bonus_min at least that bonus weight.
+    Returns (chosen columns of ``a`` or None, Stage).
+    """
+    dense = np.asarray(a.toarray() if sparse.issparse(a) else a) > 0
+    use_bonus = bool(bonus) and (objective == "bonus" or bonus_min is not None)
+    rows = _reduce(dense, keep_supersets=False)
+    member = _membership(bonus, dense.shape[1]) if use_bonus else np.zeros((0, dense.shape[1]), bool)
+    cols = _reduce(np.vstack([dense[rows], member]).T, keep_supersets=True)
+    sub = sparse.csr_matrix(dense[np.ix_(rows, cols)].astype(float))
+    r, k = sub.shape
+    groups = [(w, np.flatnonzero(member[g, cols])) for g, (w, _) in enumerate(bonus)] if use_bonus else []
+    j = len(groups)
+    weights = np.array([w for w, _ in groups], float)
+    width = k + j
+    blocks, lb, ub = [sparse.hstack([sub, sparse.csr_matrix((r, j))], format="csr")], [np.ones(r)], [np.full(r, np.inf)]
+    if n_max is not None:
+        blocks.append(sparse.csr_matrix(np.concatenate([np.ones(k), np.zeros(j)])[None, :]))
+        lb.append([0])
+        ub.append([n_max])
+    if j:
+        link = sparse.lil_matrix((j, width))
+        for g, (_, gc) in enumerate(groups):
+            link[g, gc] = -1.0
+            link[g, k + g] = 1.0
+        blocks.append(link.tocsr())
+        lb.append(np.full(j, -np.inf))
+        ub.append(np.zeros(j))
+    if bonus_min is not None and j:
+        blocks.append(sparse.csr_matrix(np.concatenate([np.zeros(k), weights])[None, :]))
+        lb.append([bonus_min])
+        ub.append([np.inf])
+    c = np.concatenate([np.zeros(k), -weights]) if objective == "bonus" else np.concatenate([np.ones(k), np.zeros(j)])
+    x, st = _solve(name, c, blocks, lb, ub, np.concatenate([np.ones(k), np.zeros(j)]), width, deadline, question)
+    return (None if x is None else cols[_pick(x, k)]), st
 
 
 def fewest(problem: Problem, time_limit: float = TIME_LIMIT_S) -> Solution:
-    """The fewest columns serving every row (rows nothing serves must be left out by the caller)."""
+    """The fewest columns serving every row (rows nothing serves must be left out by the caller).
+
+    ``time_limit`` [s] bounds all the solves together.
+    """
+    deadline = Deadline(time_limit)
     q = quantised(problem.value)
     r, k = q.shape
     if r == 0:
         return Solution((), np.zeros(0, bool), None, 0, ())
     if np.any(np.diff(q.indptr) == 0):
         raise ValueError("fewest: every row must be served by at least one column")
-    a = (q > 0).astype(float).tocsr()
-    ones_r = np.ones(r)
     stages = []
-    # level 1: fewest columns
-    x, st = _solve("fewest frequencies", np.ones(k), [a], [ones_r], [np.full(r, np.inf)], np.ones(k), k, time_limit)
+    chosen, st = _cover(q > 0, "fewest frequencies", deadline)
     stages.append(st)
-    if x is None:
+    if chosen is None:
         return Solution((), np.zeros(r, bool), None, 0, tuple(stages))
-    chosen = _pick(x, k)
     n_best = chosen.size
-    # level 2: most bonus weight with that many
-    j = len(problem.bonus)
-    bonus_w = np.array([w for w, _ in problem.bonus], float)
-    z_best = 0
-    if j:
-        card = sparse.csr_matrix(np.concatenate([np.ones(k), np.zeros(j)])[None, :])
-        a2 = sparse.hstack([a, sparse.csr_matrix((r, j))], format="csr")
-        x2, st = _solve("most hours with one channel for the whole net", np.concatenate([np.zeros(k), -bonus_w]),
-                        [a2, card, _bonus_rows(problem.bonus, k)], [ones_r, [n_best], np.full(j, -np.inf)],
-                        [np.full(r, np.inf), [n_best], np.zeros(j)], np.concatenate([np.ones(k), np.zeros(j)]),
-                        k + j, time_limit)
+    z_best = None
+    if problem.bonus:
+        better, st = _cover(q > 0, "most hours with one channel for the whole net", deadline, bonus=problem.bonus,
+                            objective="bonus", n_max=n_best)
         stages.append(st)
-        if x2 is not None:
-            chosen = _pick(x2, k)
+        if better is not None:
+            chosen = better
         z_best = _bonus_weight(problem.bonus, chosen)
 
     def feasible(tau: int):
-        aq = (q >= tau).astype(float).tocsr()
-        if np.any(np.diff(aq.indptr) == 0):
+        aq = q >= tau
+        if np.any(np.diff(aq.tocsr().indptr) == 0):
             return None, None
-        if not j:
-            return _solve(f"worst fraction >= {tau / RESOLUTION:.3f}", np.ones(k), [aq, sparse.csr_matrix(np.ones((1, k)))],
-                          [ones_r, [n_best]], [np.full(r, np.inf), [n_best]], np.ones(k), k, time_limit, True)
-        card = sparse.csr_matrix(np.concatenate([np.ones(k), np.zeros(j)])[None, :])
-        wrow = sparse.csr_matrix(np.concatenate([np.zeros(k), bonus_w])[None, :])
-        return _solve(f"worst fraction >= {tau / RESOLUTION:.3f}", np.zeros(k + j),
-                      [sparse.hstack([aq, sparse.csr_matrix((r, j))], format="csr"), card, wrow,
-                       _bonus_rows(problem.bonus, k)],
-                      [ones_r, [n_best], [z_best], np.full(j, -np.inf)],
-                      [np.full(r, np.inf), [n_best], [np.inf], np.zeros(j)],
-                      np.concatenate([np.ones(k), np.zeros(j)]), k + j, time_limit, True)
+        return _cover(aq, f"worst fraction >= {tau / RESOLUTION:.3f}", deadline, bonus=problem.bonus,
+                      n_max=n_best, bonus_min=z_best, question=True)
 
     chosen, tie = _bisect(q, chosen, feasible, True)
     stages += tie
-    return Solution(tuple(int(c) for c in chosen), np.ones(r, bool), _worst_value(q, chosen), _bonus_weight(problem.bonus, chosen),
-                    tuple(stages))
+    return Solution(tuple(int(c) for c in sorted(chosen)), np.ones(r, bool), _worst_value(q, chosen),
+                    _bonus_weight(problem.bonus, chosen), tuple(stages))
+
+
+def _coverage(a, w: np.ndarray, n: int, name: str, deadline: Deadline, weight_min: float | None = None,
+              question: bool = False):
+    """At most n columns of the 0/1 matrix ``a`` covering the most row weight (or at least weight_min)."""
+    dense = np.asarray(a.toarray() if sparse.issparse(a) else a) > 0
+    cols = _reduce(dense.T, keep_supersets=True)
+    sub = dense[:, cols]
+    keep = sub.any(axis=1)  # rows no column serves cannot count
+    words = _bits(sub[keep])
+    uniq, inverse = np.unique(words, axis=0, return_inverse=True)
+    wt = np.bincount(inverse.ravel(), weights=w[keep], minlength=uniq.shape[0])
+    first = np.zeros(uniq.shape[0], int)
+    first[inverse.ravel()[::-1]] = np.arange(inverse.size)[::-1]
+    m = sparse.csr_matrix(sub[keep][first].astype(float))
+    r, k = m.shape
+    # variables [x (k), s (r)]: s_r <= sum of x over the columns serving row r
+    blocks = [sparse.hstack([-m, sparse.identity(r, format="csr")], format="csr"),
+              sparse.csr_matrix(np.concatenate([np.ones(k), np.zeros(r)])[None, :])]
+    lb, ub = [np.full(r, -np.inf), [0]], [np.zeros(r), [n]]
+    c = np.concatenate([np.zeros(k), -wt])
+    if weight_min is not None:
+        blocks.append(sparse.csr_matrix(np.concatenate([np.zeros(k), wt])[None, :]))
+        lb.append([weight_min])
+        ub.append([np.inf])
+        c = np.concatenate([np.ones(k), np.zeros(r)])
+    x, st = _solve(name, c, blocks, lb, ub, np.concatenate([np.ones(k), np.zeros(r)]), k + r, deadline, question)
+    return (None if x is None else cols[_pick(x, k)]), st
 
 
 def most(problem: Problem, n: int, time_limit: float = TIME_LIMIT_S) -> Solution:
-    """At most ``n`` columns serving the most row weight; ties by the worst fraction over served rows."""
+    """At most ``n`` columns serving the most row weight; ties by the worst fraction over served rows.
+
+    ``time_limit`` [s] bounds all the solves together.
+    """
+    deadline = Deadline(time_limit)
     q = quantised(problem.value)
     r, k = q.shape
     if r == 0 or n <= 0:
         return Solution((), np.zeros(r, bool), None, 0, ())
     w = np.asarray(problem.weight, float)
     stages = []
-
-    def programme(aq, name, target_weight=None, question=False):
-        # variables [x (k), s (r)]: s_r <= sum of x over the columns serving r
-        link = sparse.hstack([-aq, sparse.identity(r, format="csr")], format="csr")
-        card = sparse.csr_matrix(np.concatenate([np.ones(k), np.zeros(r)])[None, :])
-        rows, lb, ub = [link, card], [np.full(r, -np.inf), [0]], [np.zeros(r), [n]]
-        c = np.concatenate([np.zeros(k), -w])
-        if target_weight is not None:
-            rows.append(sparse.csr_matrix(np.concatenate([np.zeros(k), w])[None, :]))
-            lb.append([target_weight])
-            ub.append([np.inf])
-            c = np.zeros(k + r)
-        return _solve(name, c, rows, lb, ub, np.concatenate([np.ones(k), np.zeros(r)]), k + r, time_limit, question)
-
-    a = (q > 0).astype(float).tocsr()
-    x, st = programme(a, f"most pairs with {n} frequencies")
+    chosen, st = _coverage(q > 0, w, n, f"most pairs with {n} frequencies", deadline)
     stages.append(st)
-    if x is None:
+    if chosen is None:
         return Solution((), np.zeros(r, bool), None, 0, tuple(stages))
-    chosen = _pick(x, k)
+    a = (q > 0).tocsc()
     served = np.asarray(a[:, chosen].sum(axis=1)).ravel() > 0
     best_weight = float(w[served].sum())
 
     def feasible(tau: int):
-        return programme((q >= tau).astype(float).tocsr(), f"worst fraction >= {tau / RESOLUTION:.3f}", best_weight - 0.5, True)
+        return _coverage(q >= tau, w, n, f"worst fraction >= {tau / RESOLUTION:.3f}", deadline,
+                         weight_min=best_weight - 0.5, question=True)
 
     chosen, tie = _bisect(q, chosen, feasible, False)
     stages += tie
-    served = np.asarray(a[:, chosen].sum(axis=1)).ravel() > 0 if chosen.size else np.zeros(r, bool)
-    return Solution(tuple(int(c) for c in chosen), served, _worst_value(q, chosen), 0, tuple(stages))
+    served = np.asarray(a[:, chosen].sum(axis=1)).ravel() > 0 if len(chosen) else np.zeros(r, bool)
+    return Solution(tuple(int(c) for c in sorted(chosen)), served, _worst_value(q, chosen), 0, tuple(stages))
 
 
 def _bisect(q, chosen, feasible, every_row: bool):
     """Raise the worst fraction as far as it goes, by bisection over the distinct fractions.
 
     ``feasible(tau)`` solves the earlier levels' programme using only entries >= tau and returns
-    (x or None, Stage or None). Returns (columns, stages).
+    (columns or None, Stage or None). Returns (columns, stages).
     """
     stages = []
-    k = q.shape[1]
     lo = _worst(q, chosen)
     if lo is None:
         return chosen, stages
@@ -258,11 +352,13 @@ def _bisect(q, chosen, feasible, every_row: bool):
         cand = cand[cand <= np.maximum.reduceat(q.data, q.indptr[:-1]).min()]
     while cand.size:
         mid = cand.size // 2
-        x, st = feasible(int(cand[mid]))
+        found, st = feasible(int(cand[mid]))
         if st is not None:
             stages.append(st)
-        if x is not None:
-            chosen = _pick(x, k)
+            if st.status.startswith("not run"):
+                break
+        if found is not None:
+            chosen = found
             lo = _worst(q, chosen)
             cand = cand[cand > lo]
         else:
@@ -280,8 +376,8 @@ def _bonus_weight(bonus, chosen) -> int:
     return int(sum(w for w, cols in bonus if s.intersection(int(c) for c in cols)))
 
 
-def solver_info() -> dict:
+def solver_info(time_limit: float = TIME_LIMIT_S) -> dict:
     """Which solver, for the report."""
     return {"name": "HiGHS", "interface": "scipy.optimize.milp", "scipy": scipy.__version__,
-            "mip_rel_gap": 0.0, "time_limit_s": TIME_LIMIT_S,
+            "mip_rel_gap": 0.0, "time_limit_s": float(time_limit),
             "fraction_resolution": 1.0 / RESOLUTION}

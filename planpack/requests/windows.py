@@ -79,7 +79,9 @@ def windows(serves: sparse.csr_matrix, grid: CandidateGrid, chosen: list[int], c
         worst = sub[np.isin(rows, mine)].min(axis=0) if mine.size else np.zeros(inside.size)
         mean = sub.mean(axis=0) if rows.size else np.zeros(inside.size)
         mid = 0.5 * (grid.freqs_khz[inside[0]] + grid.freqs_khz[inside[-1]])
-        key = np.lexsort((np.abs(grid.freqs_khz[inside] - mid), -np.round(mean, 4), -worst))
+        # fractions compared in thousandths, as the optimiser does: noise never pushes the centre to an edge
+        key = np.lexsort((np.abs(grid.freqs_khz[inside] - mid), -np.floor(mean * 1000 + 1e-6),
+                          -np.floor(worst * 1000 + 1e-6)))
         centre = int(inside[key[0]])
         centre_rows = np.flatnonzero(csc[:, centre].toarray().ravel() > 0)
         centre_hours = tuple(h for h, cols in sorted(closes.items()) if centre in set(cols.tolist()))

@@ -79,6 +79,7 @@ CASES = [
     ("complex-key", mutate(("    name: Operations\n", "    name: Operations\n    ? [a, b]\n    : 1\n")), "yaml-complex-key", "[a, b]", 1),
     ("tag", mutate(("title: Test net", "title: !!python/object:os.system x")), "yaml-tag", "!!python", 1),
     ("two-documents", BASE + "---\nplanpack: 1\n", "yaml-multiple-documents", "---", 1),
+    ("bad-request", BASE + "request:\n  bands_khz: [[5000, 4000]]\n", "bad-request", "[5000, 4000]", 1),
 ]
 
 

@@ -108,3 +108,10 @@ def test_empty_and_unservable_rows():
 def test_solver_info_names_highs():
     info = optimise.solver_info()
     assert info["name"] == "HiGHS" and info["interface"] == "scipy.optimize.milp"
+
+
+def test_a_spent_time_limit_is_reported_not_optimal():
+    p = random_problem(5)
+    sol = most(p, 1, time_limit=0.0)
+    assert not sol.optimal and sol.chosen == ()
+    assert sol.stages[0].status.startswith("not run")
