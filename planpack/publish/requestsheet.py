@@ -67,7 +67,7 @@ def _story(d: dict, detail: int, fw: float) -> list:
     if props:
         story.append(_p(f"Ask for {len(props)} new {d['mode']['id']} channel{'s' * (len(props) != 1)}", "head"))
         rows = [[_p("", "cellb"), _p("frequency", "cellb"), _p("window", "cellb"), _p("worst hour", "cellb"),
-                 _p("serves (UTC, local)", "cellb")]]
+                 _p("serves (UTC, local)", "cellb"), _p("assigned (kHz)", "cellb")]]
         shown = props if keep_items is None else props[:keep_items]
         for p in shown:
             lines = report.grouped(p["serves"], labels)
@@ -79,14 +79,15 @@ def _story(d: dict, detail: int, fw: float) -> list:
                 lines = lines[:keep_serves - 1] + [f"... and {len(lines) - keep_serves + 1} more lines"]
             rows.append([_p(p["id"], "cellb"), _p(report.khz(p["khz"]), "cellb"), _p(report.window(p["window_khz"]), "cell"),
                          _p(report.pct(p["worst_good_days"], t), "cell"),
-                         Paragraph("<br/>".join(escape(x) for x in lines), ST["cell"])])
+                         Paragraph("<br/>".join(escape(x) for x in lines), ST["cell"]), ""])
         if len(shown) < len(props):
             dropped += len(props) - len(shown)
-            rows.append([_p("", "cell"), _p(f"... and {len(props) - len(shown)} more proposals", "cell"), "", "", ""])
-        table = Table(rows, colWidths=[0.06 * fw, 0.13 * fw, 0.17 * fw, 0.1 * fw, 0.54 * fw], repeatRows=1)
+            rows.append([_p("", "cell"), _p(f"... and {len(props) - len(shown)} more proposals", "cell"), "", "", "", ""])
+        table = Table(rows, colWidths=[0.05 * fw, 0.12 * fw, 0.15 * fw, 0.08 * fw, 0.47 * fw, 0.13 * fw], repeatRows=1)
         table.setStyle(TableStyle([
             ("VALIGN", (0, 0), (-1, -1), "TOP"), ("LINEBELOW", (0, 0), (-1, 0), 0.8, colors.black),
             ("ROWBACKGROUNDS", (0, 1), (-1, -1), [colors.white, SHADE]),
+            ("BOX", (-1, 1), (-1, -1), 0.5, colors.black), ("INNERGRID", (-1, 1), (-1, -1), 0.5, colors.black),
             ("TOPPADDING", (0, 0), (-1, -1), 1.5), ("BOTTOMPADDING", (0, 0), (-1, -1), 1.5),
             ("LEFTPADDING", (0, 0), (-1, -1), 2), ("RIGHTPADDING", (0, 0), (-1, -1), 2)]))
         story.append(table)
@@ -106,7 +107,9 @@ def _story(d: dict, detail: int, fw: float) -> list:
         if len(cut) < len(items):
             dropped += len(items) - len(cut)
             story.append(_p(f"... and {len(items) - len(cut)} more", "small"))
-    story += [Spacer(1, 4), _p(report.solver_line(d), "small")]
+    story += [Spacer(1, 4), _p(report.solver_line(d), "small"), Spacer(1, 10),
+              _p("Requested by ______________________   date ____________        "
+                 "Assigned by ______________________   date ____________", "body")]
     if dropped:
         story.append(_p(f"This sheet leaves out {dropped} line{'s' * (dropped != 1)} to fit one page: run "
                         "planpack request PLAN --format markdown for the whole request.", "small"))

@@ -131,20 +131,17 @@ def coverage(plan: Plan, setup, pairs: GapPairs, freqs_khz: np.ndarray, workers:
     results = _run(plan, setup, freqs_khz, hours, target, jobs, n_workers, progress)
 
     p = len(pairs.need)
-    rows, cols, vals = [], [], []
+    pieces = []
     best = np.zeros(p, np.float32)
     best_index = np.zeros(p, np.int64)
     closes_all = np.ones((len(hours), k), bool)
-    for r_rows, r_cols, r_vals, r_best, r_arg, ok in results:
-        rows.append(r_rows)
-        cols.append(r_cols)
-        vals.append(r_vals)
-        best[r_best[0]] = r_best[1]
-        best_index[r_arg[0]] = r_arg[1]
+    for first_row, block, r_best, r_arg, ok in results:  # blocks hold consecutive rows, in order
+        pieces.append(block)
+        best[first_row:first_row + block.shape[0]] = r_best
+        best_index[first_row:first_row + block.shape[0]] = r_arg
         closes_all &= ok
-    value = sparse.csr_matrix((np.concatenate(vals) if vals else np.zeros(0, np.float32),
-                               (np.concatenate(rows) if rows else np.zeros(0, int),
-                                np.concatenate(cols) if cols else np.zeros(0, int))), shape=(p, k), dtype=np.float32)
+    value = sparse.vstack(pieces, format="csr", dtype=np.float32) if pieces else sparse.csr_matrix((0, k), dtype=np.float32)
+    value.resize((p, k))
     # links outside the gaps must also be served for a channel to be the whole net's
     evaluated = set(gap_links)
     others = [i for i in range(len(plan.links)) if i not in evaluated]
@@ -199,22 +196,18 @@ def _run(plan, setup, freqs_khz, hours, target, jobs, workers, progress):
 
 
 def _reduce(g: np.ndarray, needs: list, hours: list[int], target: float):
-    """One block of links -> sparse entries of its rows, best per row, and the net-wide mask per gap hour."""
+    """One block of links -> (its first row, its rows as sparse entries, best per row and where, net-wide mask)."""
     floor = max(target - KEEP_BELOW_TARGET, 1e-6)
     row_ids = [r for per_link in needs for r, _ in per_link]
+    k = g.shape[2]
     if row_ids:
         li = np.array([i for i, per_link in enumerate(needs) for _ in per_link])
         hi = np.array([h for per_link in needs for _, h in per_link])
-        sub = g[li, hi, :]                                   # (rows, k)
-        rr, cc = np.nonzero(sub >= floor)
-        rows = np.asarray(row_ids)[rr]
-        vals = sub[rr, cc].astype(np.float32)
+        sub = g[li, hi, :]                                   # (rows, k), rows consecutive
+        block = sparse.csr_matrix(np.where(sub >= floor, sub, 0).astype(np.float32))
         arg = sub.argmax(axis=1)
-        best = (np.asarray(row_ids), sub[np.arange(sub.shape[0]), arg])
-        args = (np.asarray(row_ids), arg)
+        best, first = sub[np.arange(sub.shape[0]), arg], row_ids[0]
     else:
-        rows = cc = np.zeros(0, int)
-        vals = np.zeros(0, np.float32)
-        best = args = (np.zeros(0, int), np.zeros(0))
-    ok = (g[:, hours, :] >= target).all(axis=0) if hours else np.ones((0, g.shape[2]), bool)
-    return rows, cc, vals, best, args, ok
+        block, arg, best, first = sparse.csr_matrix((0, k), dtype=np.float32), np.zeros(0, int), np.zeros(0), 0
+    ok = (g[:, hours, :] >= target).all(axis=0) if hours else np.ones((0, k), bool)
+    return first, block, best, arg, ok

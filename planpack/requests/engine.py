@@ -142,7 +142,7 @@ def plan_requests(plan: Plan, setup, pred=None, *, max_new: int | None = None, b
 
     serves = cov.serves()
     servable = np.diff(serves.indptr) > 0
-    problem, row_of, col_map = _problem(serves, servable, cov.closes, gp, gp.need)
+    problem, col_map = _problem(serves, servable, cov.closes, gp.in_gap)
     clock.lap("build problem")
     say("solving the integer programme")
     sol = optimise.fewest(problem, time_limit)
@@ -200,7 +200,8 @@ def plan_requests(plan: Plan, setup, pred=None, *, max_new: int | None = None, b
     worst_after = [p["worst_good_days"] for p in out["proposals"] if p["worst_good_days"] is not None]
     out["solver"] = {
         **optimise.solver_info(time_limit), "mode": mode_used, "max_new": max_new,
-        "status": "optimal" if sol.optimal else "not proven optimal", "optimal": bool(sol.optimal),
+        "status": ("nothing to solve: no candidate serves any pair" if problem.shape[0] == 0
+                   else "optimal" if sol.optimal else "not proven optimal"), "optimal": bool(sol.optimal),
         "frequencies": len(chosen), "pairs_served": int(need_served[servable].sum()),
         "pairs_servable": int(servable.sum()),
         "net_channel_hours": len({h for w in wins for h in w.net_hours}), "net_channel_gap_pairs": int(sol.bonus_weight),
@@ -219,9 +220,13 @@ def plan_requests(plan: Plan, setup, pred=None, *, max_new: int | None = None, b
     return out
 
 
-def _problem(serves: sparse.csr_matrix, servable: np.ndarray, closes: dict, gp, need):
-    """The optimiser's problem: servable rows merged when identical, columns merged when identical."""
+def _problem(serves: sparse.csr_matrix, servable: np.ndarray, closes: dict, in_gap: np.ndarray):
+    """The optimiser's problem: servable rows merged when identical, columns merged when identical.
+
+    Returns the problem and, for each of its columns, the candidate it stands for.
+    """
     q = optimise.quantised(serves[np.flatnonzero(servable)])
+    q.sort_indices()
     keys: dict[tuple[bytes, bytes], int] = {}
     row_of = np.empty(q.shape[0], int)
     weight: list[int] = []
@@ -236,8 +241,9 @@ def _problem(serves: sparse.csr_matrix, servable: np.ndarray, closes: dict, gp, 
     first = np.zeros(len(weight), int)
     first[row_of[::-1]] = np.arange(q.shape[0])[::-1]
     qu = q[first].tocsc()
+    qu.sort_indices()
     # columns: drop those serving nothing, merge identical ones (same rows, values and net hours)
-    hour_w = {h: int(gp.in_gap[:, h].sum()) for h in closes}
+    hour_w = {h: int(in_gap[:, h].sum()) for h in closes}
     member = {}
     for h, cols in closes.items():
         for c in cols.tolist():
@@ -258,7 +264,7 @@ def _problem(serves: sparse.csr_matrix, servable: np.ndarray, closes: dict, gp, 
     bonus = tuple((hour_w[h], np.array(sorted(where[c] for c in closes[h].tolist() if c in where), int))
                   for h in sorted(closes))
     bonus = tuple((w, c) for w, c in bonus if c.size)
-    return optimise.Problem(value, np.asarray(weight, int), bonus), row_of, cols
+    return optimise.Problem(value, np.asarray(weight, int), bonus), cols
 
 
 def _merge_message(a: str, b: str, m, grid, target: float) -> str:

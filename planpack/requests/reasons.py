@@ -74,7 +74,8 @@ def explain(code: str, *, muf: tuple[float, float], luf: tuple[float, float] | N
             target: float, lowest_khz: float, channels: list[str]) -> str:
     """A whole sentence for a group of pairs with the same reason; figures as ranges over the group.
 
-    muf, luf : (min, max) over the group [MHz]; luf None where no frequency meets the requirement.
+    muf, luf : (min, max) over the group's hours [MHz]; luf None where no frequency meets the requirement
+        (never for ``outside_bands``).
     best : the best fraction of good days any candidate gives [0-1], at best_khz [kHz].
     """
     def rng(a, b):
@@ -90,8 +91,9 @@ def explain(code: str, *, muf: tuple[float, float], luf: tuple[float, float] | N
         return (f"above the MUF at every frequency that may be asked for: the MUF is {rng(*muf)} MHz, the lowest "
                 f"candidate {lowest_khz / 1000:.3f} MHz; a relay or the ground wave, not a frequency.")
     if code == OUTSIDE_BANDS:
-        return (f"the frequencies that would work ({rng(luf[0], luf[1]) if luf else '?'} to {rng(*muf)} MHz) lie outside "
-                f"the bands that may be asked for or in excluded segments; widen request.bands_khz or drop an exclusion.")
+        return (f"the frequencies that would work, between the LUF ({rng(*luf)} MHz) and the MUF ({rng(*muf)} MHz), "
+                f"lie outside the bands that may be asked for or in excluded segments; widen request.bands_khz or drop "
+                f"an exclusion.")
     return (f"at best {pct(best, target)} of days (at {best_khz:g} kHz), short of the {pct(target)} target: the "
             f"day-to-day spread of the ionosphere and of the noise; more power, a better antenna or a quieter site "
             f"would help, not another frequency.")

@@ -49,7 +49,7 @@ def header_lines(d: dict) -> list[str]:
     t = d["target_good_days"]
     lines = [f"Frequency request for {net['id']}: {net['title']}",
              f"Plan revision {d['revision']['id']}" + (f"; handling: {net['handling']}" if net.get("handling") else ""),
-             f"Target: every link on {pct(t)} of days, worst case over {_scenario(d)} and both directions.",
+             f"Target: each link works on at least {pct(t)} of days, worst case over {_scenario(d)} and both directions.",
              f"New channels: {m['id']} ({m['snr_db']:g} dB SNR in {m['bandwidth_hz']:g} Hz); candidates every "
              f"{c['step_khz']:g} kHz in {', '.join(f'{lo:g}-{hi:g}' for lo, hi in c['bands_khz'])} kHz: {c['count']} "
              f"frequencies, leaving out {len(c['builtin_exclusions'])} distress, safety and time-signal segments "
@@ -105,6 +105,8 @@ def text(d: dict) -> str:
 def solver_line(d: dict) -> str:
     s = d["solver"]
     p = s.get("problem", {})
+    if not s["stages"]:
+        return f"Solver: {s['name']} through {s['interface']} (scipy {s['scipy']}): {s['status']}."
     return (f"Solver: {s['name']} through {s['interface']} (scipy {s['scipy']}), {s['status']}: "
             f"{s['frequencies']} frequenc{'y' if s['frequencies'] == 1 else 'ies'}; {s.get('objective', '')}; "
             f"{len(s['stages'])} solve{'s' * (len(s['stages']) != 1)} over {p.get('rows', 0)} distinct pair groups "
