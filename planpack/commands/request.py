@@ -140,15 +140,15 @@ def run(args) -> int:
         from planpack.publish.requestsheet import render_request_sheet
 
         pdf = render_request_sheet(data)
+    if pdf is not None:  # before anything is printed: a failed write leaves no half result behind
+        _write_atomic(args.pdf, pdf)
+        _say(args, f"wrote the request sheet to {args.pdf}")
     if args.format == "json":
         sys.stdout.write(json.dumps(data, indent=2, ensure_ascii=False) + "\n")
     elif args.format == "markdown":
         sys.stdout.write(report.markdown(data))
     else:
         sys.stdout.write(report.text(data))
-    if pdf is not None:
-        _write_atomic(args.pdf, pdf)
-        _say(args, f"wrote the request sheet to {args.pdf}")
     return cli.EXIT_OK
 
 
@@ -159,12 +159,14 @@ def _write_atomic(path: str, data: bytes) -> None:
     folder = os.path.dirname(os.path.abspath(path))
     if not os.path.isdir(folder):
         raise cli.UsageError(f"--pdf: the folder {folder} does not exist")
-    fd, tmp = tempfile.mkstemp(prefix=".request-", suffix=".pdf.tmp", dir=folder)
+    tmp = None
     try:
+        fd, tmp = tempfile.mkstemp(prefix=".request-", suffix=".pdf.tmp", dir=folder)
         with os.fdopen(fd, "wb") as fh:
             fh.write(data)
         os.replace(tmp, path)
-    except BaseException:
-        if os.path.exists(tmp):
+    except OSError as exc:
+        raise cli.UsageError(f"--pdf: cannot write {path}: {exc.strerror or exc}") from None
+    finally:
+        if tmp is not None and os.path.exists(tmp):
             os.unlink(tmp)
-        raise

@@ -181,6 +181,8 @@ def check_values(bands, exclude, step, key: str = "request") -> list[tuple[str, 
     count = _count(bands, step)
     if open_width <= 0:
         problems.append((f"{key}.exclude_khz", "the exclusions cover every band; nothing is left to ask for"))
+    elif count == 0:
+        problems.append((f"{key}.step_khz", f"no multiple of {step:g} kHz lies in the bands; use a smaller step"))
     elif count > MAX_CANDIDATES:
         problems.append((f"{key}.step_khz", f"a step of {step:g} kHz over {_measure(list(bands)):g} kHz of bands gives about "
                                             f"{count} candidate frequencies; at most {MAX_CANDIDATES} are predicted "
