@@ -98,7 +98,7 @@ def text(d: dict) -> str:
         for u in d["unservable"]:
             out.append(f"  {_pretty(u['link'])} {format_hours(u['utc_hours'])} UTC "
                        f"({format_hours(u['utc_hours'], labels)} local): {u['message']}")
-    out += ["", solver_line(d)]
+    out += ["", solver_line(d), "", "Assumptions:"] + [f"  - {a}" for a in d.get("assumptions", [])]
     return "\n".join(out) + "\n"
 
 
@@ -158,5 +158,6 @@ def markdown(d: dict) -> str:
             out.append(f"- {_md(_pretty(u['link']))} {format_hours(u['utc_hours'])} UTC "
                        f"({format_hours(u['utc_hours'], labels)} local): {_md(u['message'])}")
         out.append("")
-    out += [f"<sub>{_md(solver_line(d))}</sub>", ""]
+    out += [f"<sub>{_md(solver_line(d))}</sub>", "", "<details><summary>Assumptions</summary>", ""]
+    out += [f"- {_md(a)}" for a in d.get("assumptions", [])] + ["", "</details>", ""]
     return "\n".join(out)

@@ -86,4 +86,10 @@ def test_bad_values_name_the_key(bands, exclude, step, key, words):
 
 def test_a_band_inside_a_guard_band_leaves_nothing():
     with pytest.raises(GridError, match="no frequency is left"):
-        candidate_grid(bands=[(2178, 2186)])
+        candidate_grid(bands=[(2175, 2190)])
+
+
+def test_a_step_with_no_multiple_in_the_bands():
+    with pytest.raises(GridError, match="no multiple of 25 kHz") as e:
+        candidate_grid(bands=[(2176, 2188)])
+    assert e.value.key == "request.step_khz"

@@ -48,7 +48,7 @@ def test_a_full_section_is_read(tmp_path):
     ("request:\n  step_khz: 0\n", "step_khz", "request.step_khz", "above 0"),
     ("request:\n  step_khz: 0.5\n", "step_khz", "request.step_khz", "at most 4000"),
     ("request:\n  mode: psk31\n", "mode", "request.mode", "neither built in"),
-    ("request:\n  bands_khz: [[2176, 2188]]\n", "bands_khz", "request.bands_khz", "no frequency is left"),
+    ("request:\n  bands_khz: [[2175, 2190]]\n", "bands_khz", "request.bands_khz", "no frequency is left"),
     ("request:\n  bands_khz: [[1000, 2000]]\n", "bands_khz", "request.bands_khz[0][0]", "from 1500 to 30000"),
     ("request:\n  stepkhz: 5\n", "stepkhz", "request.stepkhz", "did you mean 'step_khz'"),
 ])

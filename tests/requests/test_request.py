@@ -258,7 +258,7 @@ def test_a_plan_with_no_gaps_says_so_and_exits_0(capsys, tmp_path):
 
 @pytest.mark.parametrize("argv, words", [
     (["--bands", "5000-4000"], "--bands"),
-    (["--bands", "2176-2188"], "--bands"),
+    (["--bands", "2175-2190"], "--bands"),
     (["--exclude", "1500-30000"], "--exclude"),
     (["--mode", "psk31"], "--mode"),
     (["--step", "0"], "--step"),
