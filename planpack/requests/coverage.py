@@ -30,7 +30,8 @@ from planpack.plan.models import Plan
 from planpack.requests import physics
 from planpack.requests.windows import MERGE_SLACK
 
-#: Links predicted per call of the physics (bounds the (links, 24, k) block in memory).
+#: Links handed to the physics at a time, at most (bounds the (links, 24, k) block in memory); the physics'
+#: own chunk size when smaller, so that no call is left short.
 BLOCK_LINKS = 60
 #: Entries are kept down to this far below the target (for the merge hints) [fraction of days].
 KEEP_BELOW_TARGET = MERGE_SLACK
@@ -121,7 +122,8 @@ def coverage(plan: Plan, setup, pairs: GapPairs, freqs_khz: np.ndarray, workers:
     k = freqs_khz.size
     gap_links = sorted({int(l) for l in np.flatnonzero(pairs.in_gap.any(axis=1))})
     hours = list(pairs.hours)
-    blocks = [gap_links[a:a + BLOCK_LINKS] for a in range(0, len(gap_links), BLOCK_LINKS)]
+    size = max(1, min(BLOCK_LINKS, physics.links_per_call(k)))
+    blocks = [gap_links[a:a + size] for a in range(0, len(gap_links), size)]
     need_by_link: dict[int, list[tuple[int, int]]] = {}
     for row, (l, h) in enumerate(pairs.need):
         need_by_link.setdefault(int(l), []).append((row, int(h)))

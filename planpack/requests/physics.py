@@ -46,6 +46,16 @@ class _CandidateGains:
         return self._setup.vertical(station, kinds)
 
 
+def links_per_call(k: int) -> int:
+    """Links predicted together for k candidates: the gain tables of both directions stay under _CHUNK_BYTES.
+
+    Callers that hand over links in blocks of this size (or a multiple) avoid a short last call, each
+    call costing a fixed share (the ionospheric maps are read once per call).
+    """
+    per_link = 2 * 2 * max(int(k), 1) * 91 * 8  # both directions, tx and rx tables, float64
+    return max(1, int(_CHUNK_BYTES // per_link))
+
+
 def candidate_channels(plan: Plan, freqs_khz, mode: str) -> ChannelSet:
     """The link budget's channel set for candidate frequencies [kHz] in one mode."""
     f = np.asarray(freqs_khz, float)
@@ -88,8 +98,7 @@ def candidate_good_days(plan: Plan, setup, link_indices, freqs_khz, mode: str | 
     gains = _CandidateGains(plan, setup, f)
     scenarios = [(y, m, s) for y, m in localtime.months_touched(plan.net.valid_from, plan.net.valid_to)
                  for s in ssn_levels(plan)]
-    per_link = 2 * 2 * f.size * 91 * 8  # both directions, tx and rx tables
-    step = max(1, int(_CHUNK_BYTES // per_link))
+    step = links_per_call(f.size)
     for a in range(0, len(idx), step):
         part = [plan.links[i] for i in idx[a:a + step]]
         n = len(part)
