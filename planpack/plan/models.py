@@ -14,6 +14,7 @@ import datetime as dt
 from dataclasses import dataclass, field
 
 from planpack.plan.modes import Mode
+from planpack.requests import candidates  # the request's defaults (pure constants, no planpack imports)
 
 
 @dataclass(frozen=True)
@@ -108,10 +109,10 @@ class Net:
 class Request:
     """What ``planpack request`` may propose (the plan's ``request:`` section, defaults filled in)."""
 
-    bands_khz: tuple[tuple[float, float], ...] = ((1600.0, 30000.0),)
+    bands_khz: tuple[tuple[float, float], ...] = candidates.DEFAULT_BANDS_KHZ
     exclude_khz: tuple[tuple[float, float], ...] = ()  # a single frequency is (f, f)
     mode: str | None = None  # None: the commonest mode of the plan's channels
-    step_khz: float = 25.0
+    step_khz: float = candidates.DEFAULT_STEP_KHZ
 
     def mode_for(self, plan: "Plan") -> str:
         """The mode of new channels: as written, else the plan's commonest (ties: the first written)."""

@@ -12,6 +12,7 @@ import json
 from planpack.plan.types import (
     ByShape, Choice, Date, Field, Flag, ListOf, MapOf, Number, Record, Slug, Text,
 )
+from planpack.requests import candidates  # the request's defaults (pure constants, no planpack imports)
 
 FORMAT_VERSION = 1
 
@@ -124,7 +125,7 @@ MODE = Record(fields={
 KHZ = Number(1500, 30000, unit="kHz")
 REQUEST = Record(fields={
     "bands_khz": Field(ListOf(ListOf(KHZ, min_items=2, max_items=2, description="a segment [low, high]"), min_items=1, max_items=100),
-                       required=False, default=[[1600.0, 30000.0]],
+                       required=False, default=[list(b) for b in candidates.DEFAULT_BANDS_KHZ],
                        doc="segments the spectrum manager assigns from, [low, high] in kHz (default the whole band 1600-30000)"),
     "exclude_khz": Field(ListOf(ByShape(scalar=KHZ, sequence=ListOf(KHZ, min_items=2, max_items=2),
                                         expected="a frequency or a segment [low, high] in kHz"), max_items=500),
@@ -132,7 +133,8 @@ REQUEST = Record(fields={
                          doc="frequencies or segments never to propose (the international distress and safety "
                              "frequencies are always left out)"),
     "mode": Field(Slug(), required=False, doc="mode of the new channels (default: the commonest mode of the plan's channels)"),
-    "step_khz": Field(Number(0, 1000, exclusive_minimum=True, unit="kHz"), required=False, default=25.0,
+    "step_khz": Field(Number(0, 1000, exclusive_minimum=True, unit="kHz"), required=False,
+                      default=candidates.DEFAULT_STEP_KHZ,
                       doc="spacing of the candidate frequencies"),
 }, description="what planpack request may propose to the spectrum manager")
 
