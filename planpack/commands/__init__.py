@@ -16,4 +16,4 @@ Adding a command is one module here and one name in :data:`COMMANDS`.
 """
 
 #: Every command, in the order ``planpack --help`` lists them (module names in this package).
-COMMANDS = ("check", "build", "cards", "diff", "new", "serve", "schema", "codes")
+COMMANDS = ("check", "build", "cards", "diff", "new", "serve", "request", "schema", "codes")

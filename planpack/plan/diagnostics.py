@@ -68,6 +68,7 @@ CODES: dict[str, str] = {
     "unknown-mode": "a channel mode that is neither built in nor declared",
     "clock-change": "the UTC offset of the net's time zone changes inside the validity period",
     "plan-too-large": "more links, predictions or antenna solutions than planpack's size bounds",
+    "bad-request": "a request section whose bands, exclusions or step leave nothing to ask for",
     # analysis results reported by check (filled in by later passes)
     "channel-gap": "hours where no assigned channel serves a link",
     "antenna-loss": "much of the set's power lost before the antenna a station rigs on a channel (matching, feedline or ground)",

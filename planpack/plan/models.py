@@ -14,6 +14,7 @@ import datetime as dt
 from dataclasses import dataclass, field
 
 from planpack.plan.modes import Mode
+from planpack.requests import candidates  # the request's defaults (pure constants, no planpack imports)
 
 
 @dataclass(frozen=True)
@@ -109,6 +110,23 @@ class Net:
 
 
 @dataclass(frozen=True)
+class Request:
+    """What ``planpack request`` may propose (the plan's ``request:`` section, defaults filled in)."""
+
+    bands_khz: tuple[tuple[float, float], ...] = candidates.DEFAULT_BANDS_KHZ
+    exclude_khz: tuple[tuple[float, float], ...] = ()  # a single frequency is (f, f)
+    mode: str | None = None  # None: the commonest mode of the plan's channels
+    step_khz: float = candidates.DEFAULT_STEP_KHZ
+
+    def mode_for(self, plan: "Plan") -> str:
+        """The mode of new channels: as written, else the plan's commonest (ties: the first written)."""
+        if self.mode is not None:
+            return self.mode
+        modes = [c.mode for c in plan.channels]
+        return max(modes, key=lambda m: (modes.count(m), -modes.index(m)))
+
+
+@dataclass(frozen=True)
 class Plan:
     source: str  # the path the plan was read from, as given
     sha256: str  # of the file's bytes
@@ -118,6 +136,7 @@ class Plan:
     antennas: tuple[Antenna, ...]  # in file order
     modes: dict[str, Mode] = field(default_factory=dict)  # built-in merged with the plan's
     links: tuple[tuple[str, str], ...] = ()  # resolved station-id pairs, in a stable order
+    request: Request = field(default_factory=Request)  # the request: section, defaults filled in
     # where each key path was written, (line, column), so later passes can point at it
     positions: dict[str, tuple[int, int]] = field(default_factory=dict, compare=False, repr=False)
 

@@ -14,6 +14,7 @@ from planpack.plan.bounds import MAX_LINKS
 from planpack.plan.types import (
     ByShape, Choice, Date, Field, Flag, ListOf, MapOf, Number, Record, Slug, Text,
 )
+from planpack.requests import candidates  # the request's defaults (pure constants, no planpack imports)
 
 FORMAT_VERSION = 1
 
@@ -143,6 +144,22 @@ MODE = Record(fields={
     "duty_factor": Field(Number(0.01, 1), required=False, doc="average transmit duty for RF exposure"),
 })
 
+KHZ = Number(1500, 30000, unit="kHz")
+REQUEST = Record(fields={
+    "bands_khz": Field(ListOf(ListOf(KHZ, min_items=2, max_items=2, description="a segment [low, high]"), min_items=1, max_items=100),
+                       required=False, default=[list(b) for b in candidates.DEFAULT_BANDS_KHZ],
+                       doc="segments the spectrum manager assigns from, [low, high] in kHz (default the whole band 1600-30000)"),
+    "exclude_khz": Field(ListOf(ByShape(scalar=KHZ, sequence=ListOf(KHZ, min_items=2, max_items=2),
+                                        expected="a frequency or a segment [low, high] in kHz"), max_items=500),
+                         required=False, default=[],
+                         doc="frequencies or segments never to propose (the international distress and safety "
+                             "frequencies are always left out)"),
+    "mode": Field(Slug(), required=False, doc="mode of the new channels (default: the commonest mode of the plan's channels)"),
+    "step_khz": Field(Number(0, 1000, exclusive_minimum=True, unit="kHz"), required=False,
+                      default=candidates.DEFAULT_STEP_KHZ,
+                      doc="spacing of the candidate frequencies"),
+}, description="what planpack request may propose to the spectrum manager")
+
 PLAN = Record(fields={
     "planpack": Field(Number(1, 1, integer=True), doc="format version (1)"),
     "net": Field(NET),
@@ -151,6 +168,7 @@ PLAN = Record(fields={
     "antennas": Field(MapOf(ANTENNA, min_items=1, max_items=2000), doc="antenna id -> antenna"),
     "modes": Field(MapOf(MODE, key_max_len=MODE_ID_MAX), required=False,
                    doc="required SNR per mode, overriding or adding to the built-in ones"),
+    "request": Field(REQUEST, required=False, doc="what 'planpack request' may propose: bands, exclusions, mode, step"),
 }, description="planpack net plan, format version 1")
 
 

@@ -174,7 +174,8 @@ class Number(Type):
     def _expect(self) -> str:
         kind = "a whole number" if self.integer else "a number"
         if self.minimum is not None and self.maximum is not None:
-            kind += f" from {self.minimum:g} to {self.maximum:g}"
+            kind += (f" above {self.minimum:g} and at most {self.maximum:g}" if self.exclusive_minimum
+                     else f" from {self.minimum:g} to {self.maximum:g}")
         elif self.minimum is not None:
             kind += f" {'above' if self.exclusive_minimum else 'at least'} {self.minimum:g}"
         return kind + (f" [{self.unit}]" if self.unit else "")

@@ -16,11 +16,12 @@ from itertools import combinations
 from planpack import localtime
 from planpack.plan import bounds, locator
 from planpack.plan.diagnostics import Collector
-from planpack.plan.models import Antenna, Channel, Feedline, Ground, Net, Plan, Position, Solar, Station
+from planpack.plan.models import Antenna, Channel, Feedline, Ground, Net, Plan, Position, Request, Solar, Station
 from planpack.plan.modes import BUILTIN_MODES, Mode
 from planpack.plan.schema import COMMON_ANTENNA_KEYS, KIND_KEYS
 from planpack.plan.types import Ctx
 from planpack.plan.yamlread import Node
+from planpack.requests import candidates  # pure grid arithmetic, no planpack imports
 
 HF_LOW_KHZ = 1500.0
 HF_HIGH_KHZ = 30000.0
@@ -229,6 +230,25 @@ class Semantics:
         for path, message in bounds.problems(self.d):
             self.error("plan-too-large", path, message)
 
+    def request(self) -> None:
+        req = self.d.get("request")
+        if req is None:
+            return
+        modes = set(BUILTIN_MODES) | set(self.d.get("modes", {}))
+        if "mode" in req and req["mode"] not in modes:
+            self.error("unknown-mode", "request.mode", f"mode '{req['mode']}' is neither built in ({', '.join(sorted(BUILTIN_MODES))}) "
+                                                       f"nor declared under modes{self.near(req['mode'], modes)}")
+        problems = candidates.check_values(req["bands_khz"], req["exclude_khz"], req["step_khz"])
+        if not problems:  # the built-in exclusions and the assigned channels may still leave nothing
+            try:
+                candidates.candidate_grid(req["bands_khz"], req["exclude_khz"], req["step_khz"],
+                                          [ch["khz"] for ch in self.d["channels"]])
+            except candidates.GridError as exc:
+                problems = [(exc.key, exc.message)]
+        for key, message in problems:
+            where = next(k for k in (key, key.split("[")[0], "request") if k in self.ctx.positions)
+            self.ctx.out.error("bad-request", key, f"{key}: {message}", self.at(where))
+
     def run(self) -> None:
         self.net()
         self.stations()
@@ -236,6 +256,7 @@ class Semantics:
         self.channels()
         self.antennas()
         self.size()
+        self.request()
 
 
 def parse_hours(text: str) -> tuple[int, int] | None:
@@ -315,8 +336,13 @@ def build(data: dict, source: str, sha256: str, positions: dict | None = None) -
                           float(m.get("duty_factor", base.duty_factor if base else 1.0)), "set in the plan")
     control = next((s.id for s in stations if s.role == "control"), None)
     links = resolve_links(net.links, [s.id for s in stations], control)
+    req = data.get("request")
+    request = Request() if req is None else Request(
+        bands_khz=tuple((float(lo), float(hi)) for lo, hi in req["bands_khz"]),
+        exclude_khz=tuple(candidates.as_segment(e) for e in req["exclude_khz"]),
+        mode=req.get("mode"), step_khz=float(req["step_khz"]))
     return Plan(source=source, sha256=sha256, net=net, stations=tuple(stations), channels=tuple(channels),
-                antennas=tuple(antennas), modes=modes, links=links,
+                antennas=tuple(antennas), modes=modes, links=links, request=request,
                 positions={k: (v.line, v.col) for k, v in (positions or {}).items()})
 
 

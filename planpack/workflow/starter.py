@@ -158,6 +158,13 @@ antennas:
 # Optional: required SNR per mode [dB in bandwidth_hz], overriding or adding to the built-in modes.
 # modes:
 #   msg-data: {{snr_db: 10, bandwidth_hz: 3000, duty_factor: 0.5}}
+
+# Optional: what 'planpack request' may propose to the spectrum manager when check reports gaps.
+# request:
+#   bands_khz: [[2000, 8000]]     # segments you may be assigned from [kHz] (default 1600-30000)
+#   exclude_khz: [[3500, 3800]]   # frequencies or segments never to propose (distress frequencies never are)
+#   mode: usb                     # of the new channels (default: the commonest above)
+#   step_khz: 25                  # candidate spacing [kHz]
 """
 
 

@@ -81,6 +81,7 @@ CASES = [
     ("two-documents", BASE + "---\nplanpack: 1\n", "yaml-multiple-documents", "---", 1),
     ("clock-change", mutate(("to: 2027-03-20", "to: 2027-04-10")), "clock-change", "{from: 2027-03-01", 1),
     ("merge-key", mutate(("    height_m: 7\n", "    height_m: 7\n    <<: {wire_mm: 3}\n")), "yaml-merge-key", "<<", 1),
+    ("bad-request", BASE + "request:\n  bands_khz: [[5000, 4000]]\n", "bad-request", "[5000, 4000]", 1),
 ]
 #: Codes that are warnings: the plan still reads (``ok``).
 WARNING_CODES = {"unused-antenna", "clock-change"}
