@@ -264,7 +264,6 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
     target_pct = f"{round(100 * plan.net.target_good_days):d} %"
     reaches = bool(d.get("window_reaches_target"))
     inside = [] if win is None else [c for c in plan.channels if win[0] <= c.mhz <= win[1]]
-    request = "`planpack request` finds the fewest frequencies to ask for"
     if d["reason"] == schedule.NOT_AUTHORISED:
         chans = [ch_ids[c] for c in d["channels_outside_hours"]]
         extra = (f"; {_and(chans)} would serve {'it' if len(chans) == 1 else 'them'}, but "
@@ -282,19 +281,18 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
                  f"better antenna or a quieter receiving site will help, another channel will not.")
     elif win is not None and reaches:
         extra = (f"; a channel between {win[0]:.2f} and {win[1]:.2f} MHz would serve them on at least "
-                 f"{target_pct} of days ({request}).")
+                 f"{target_pct} of days.")
     elif win is not None:
         got = d.get("window_good_days") or 0.0
         extra = (f"; no frequency reaches the target of {target_pct} of days for all of them: the best is a channel "
                  f"between {win[0]:.2f} and {win[1]:.2f} MHz, working on about {int(100 * got)} % of days, so ask for "
-                 f"one there and add power, a better antenna or a quieter receiving site to reach the target "
-                 f"({request}).")
+                 f"one there and add power, a better antenna or a quieter receiving site to reach the target.")
     else:
         why = d.get("no_window_reason") or "no single frequency would serve them all"
         extra = (f"; {why}, so no one new channel closes this gap: request channels per link, relay through "
-                 f"another station or split the net ({request}).")
+                 f"another station or split the net.")
     when = "at every hour of the day" if len(hours) == 24 else f"at {local} local ({utc} UTC)"
-    message = f"no assigned channel serves {pretty} {when}{extra}"
+    message = f"no assigned channel serves {pretty} {when}{extra} {REQUEST_HINT}"
     out.warning("channel-gap", "channels", f"channels: {message}", _At(*plan.where("channels")))
     return {
         "links": names, "utc_hours": hours, "local_hours": [labels[h] for h in hours],
@@ -306,6 +304,10 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
         "window_reaches_target": bool(d.get("window_reaches_target")),
         "message": message,
     }
+
+
+#: The last sentence of every gap warning.
+REQUEST_HINT = "Run 'planpack request PLAN' for the fewest new frequencies to ask for."
 
 
 def _and(items: list[str]) -> str:

@@ -4,9 +4,10 @@
 :mod:`planpack.requests` sees only its (links, 24, k) array of fractions of
 good days. Today it runs the same machinery as :func:`planpack.predictions.predict_links`
 (both directions, every month and solar level, worst case kept) on a channel
-set made of the candidates, with each station's gain table read at the
-nearest assigned channel. When the antennas are solved across the band
-(``gain_table_at``), only :class:`_CandidateGains` changes.
+set made of the candidates, with each station's gains read at each candidate
+from its antennas solved across the band (``gain_table_at``: feed impedance
+and pattern interpolated between solved frequencies, the matching and
+feedline losses computed at the exact frequency).
 """
 
 from __future__ import annotations
@@ -18,41 +19,39 @@ from planpack.ionosphere import ChannelSet, predict_month
 from planpack.plan.models import Plan
 from planpack.predictions import link_set, ssn_levels
 
-#: Upper bound on the gain tables of one chunk of links [bytes] (tx and rx, float64).
+#: Upper bound on the predictions one call returns [bytes]: both directions of each link, 24 hours,
+#: every candidate, in the five per-cell arrays of a month's prediction (about 14 bytes a cell).
 _CHUNK_BYTES = 96e6
 
 
 class _CandidateGains:
-    """A station set-up whose gain tables are read at the candidate frequencies.
+    """A station set-up whose gain tables are read at the candidate frequencies (the band-wide solutions)."""
 
-    Today each candidate takes the table of the station's nearest assigned channel: the antennas
-    are solved only on the assigned channels. This is replaced by the band-wide antenna solutions
-    (``setup.gain_table_at(station, freqs_khz)``, interpolated across the band) when they land.
-    """
-
-    def __init__(self, plan: Plan, setup, freqs_khz: np.ndarray) -> None:
+    def __init__(self, setup, freqs_khz: np.ndarray) -> None:
         self._setup = setup
-        assigned = np.array([c.khz for c in plan.channels])
-        self._nearest = np.argmin(np.abs(np.log(freqs_khz)[:, None] - np.log(assigned)[None, :]), axis=1)
+        self._freqs = np.asarray(freqs_khz, float)
         self._cache: dict[str, np.ndarray] = {}
 
     def gain_table(self, station) -> np.ndarray:
         """(k, 91) gain [dBi] from the set's output at elevations 0..90 deg, per candidate."""
         if station.id not in self._cache:
-            self._cache[station.id] = np.asarray(self._setup.gain_table(station), float)[self._nearest]
+            self._cache[station.id] = np.asarray(self._setup.gain_table_at(station, self._freqs), np.float32)
         return self._cache[station.id]
+
+    def grid_gain_table(self, station) -> np.ndarray:
+        return self._setup.grid_gain_table(station)
 
     def vertical(self, station, kinds) -> bool:
         return self._setup.vertical(station, kinds)
 
 
 def links_per_call(k: int) -> int:
-    """Links predicted together for k candidates: the gain tables of both directions stay under _CHUNK_BYTES.
+    """Links predicted together for k candidates: what one call returns stays under _CHUNK_BYTES.
 
     Callers that hand over links in blocks of this size (or a multiple) avoid a short last call, each
     call costing a fixed share (the ionospheric maps are read once per call).
     """
-    per_link = 2 * 2 * max(int(k), 1) * 91 * 8  # both directions, tx and rx tables, float64
+    per_link = 2 * 24 * max(int(k), 1) * 14  # both directions, 24 hours, five arrays per cell
     return max(1, int(_CHUNK_BYTES // per_link))
 
 
@@ -95,7 +94,7 @@ def candidate_good_days(plan: Plan, setup, link_indices, freqs_khz, mode: str | 
     if not idx or not f.size:
         return out
     cs = candidate_channels(plan, f, mode or plan.request.mode_for(plan))
-    gains = _CandidateGains(plan, setup, f)
+    gains = _CandidateGains(setup, f)
     scenarios = [(y, m, s) for y, m in localtime.months_touched(plan.net.valid_from, plan.net.valid_to)
                  for s in ssn_levels(plan)]
     step = links_per_call(f.size)
