@@ -62,7 +62,8 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
     net = plan.net
     offset = localtime.utc_offset_min(net.timezone, localtime.reference_day(net.valid_from, net.valid_to))
     labels = localtime.local_labels(offset)
-    allowed = np.stack([localtime.allowed_utc_hours(c.hours, offset) for c in plan.channels], axis=1)  # (24, c)
+    allowed = localtime.authorised_utc_hours([c.hours for c in plan.channels], net.timezone, net.valid_from,
+                                             net.valid_to)  # (24, c), on every day, across a clock change
 
     setup = solve_station_antennas(plan, out)
     if out.has_errors:

@@ -79,6 +79,18 @@ def allowed_utc_hours(spans: tuple[tuple[int, int], ...] | None, offset_min: int
     return out
 
 
+def authorised_utc_hours(spans_per_channel, zone: str, start: dt.date, end: dt.date) -> np.ndarray:
+    """(24, c) bool: each channel is authorised for the whole UTC hour on every day of the period.
+
+    Authorised hours are local; where the UTC offset changes inside the
+    period (a clock change), an hour counts only if it is authorised under
+    every offset, so no day of the period schedules a channel outside its hours.
+    """
+    offsets = utc_offsets_min(zone, start, end)
+    cols = [np.logical_and.reduce([allowed_utc_hours(spans, off) for off in offsets]) for spans in spans_per_channel]
+    return np.stack(cols, axis=1) if cols else np.zeros((24, 0), bool)
+
+
 def offset_periods(zone: str, start: dt.date, end: dt.date) -> list[tuple[dt.date, dt.date, int]]:
     """The period cut at each change of the zone's UTC offset: [(first day, last day, offset [min])].
 

@@ -193,3 +193,15 @@ def test_check_without_cells_gives_the_same_warnings_and_briefing(compiled):
         assert a["brief"] == b["brief"]
     assert lean.data["net_schedule"] == full.data["net_schedule"]
     assert [ln["gap_utc_hours"] for ln in lean.data["links"]] == [ln["gap_utc_hours"] for ln in full.data["links"]]
+
+
+def test_authorised_hours_hold_on_both_sides_of_a_clock_change(tmp_path):
+    # Europe/Berlin moves from UTC+1 to UTC+2 on 2027-03-28 (EU summer-time rule, from memory): C3 is
+    # authorised 06:00-20:00 local, i.e. 05-19 UTC before and 04-18 UTC after; only 05-18 UTC hold on every day
+    text = SMALL.replace("to: 2027-03-20", "to: 2027-04-10")
+    c = compile_plan(plan_from(tmp_path, text))
+    c3 = next(ch for ch in c.data["channels"] if ch["id"] == "C3")
+    assert c3["allowed_utc_hours"] == list(range(5, 18))
+    for h in c.data["net_schedule"]["hours"]:
+        if h["first"] == "C3":
+            assert 5 <= h["utc_hour"] <= 17

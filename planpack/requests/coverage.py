@@ -42,8 +42,7 @@ PARALLEL_CELLS = 20_000_000
 def allowed_hours(plan: Plan) -> np.ndarray:
     """(24, c) bool: each assigned channel is authorised at that UTC hour (as compile computes it)."""
     net = plan.net
-    offset = localtime.utc_offset_min(net.timezone, localtime.reference_day(net.valid_from, net.valid_to))
-    return np.stack([localtime.allowed_utc_hours(c.hours, offset) for c in plan.channels], axis=1)
+    return localtime.authorised_utc_hours([c.hours for c in plan.channels], net.timezone, net.valid_from, net.valid_to)
 
 
 @dataclass(frozen=True)

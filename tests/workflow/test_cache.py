@@ -17,7 +17,7 @@ import sys
 
 import pytest
 from tests.workflow.conftest import REPO, write
-from tests.workflow.plans import TINY, variant
+from tests.workflow.plans import TINY as CLEAN, variant
 
 import planpack.compile
 from planpack.plan import read_plan
