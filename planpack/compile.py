@@ -21,6 +21,7 @@ from planpack.ionosphere import atmospheric, noise
 from planpack.plan.diagnostics import Collector, Diagnostic
 from planpack.plan.models import Plan
 from planpack.predictions import LinkPredictions, predict_links
+from planpack.requests.engine import plan_requests
 from planpack.revision import plan_revision
 from planpack.stationsetup import StationAntennas, solve_station_antennas
 
@@ -142,6 +143,8 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
                     f"the validity period; scanning it wastes call time", _At(*plan.where(f"channels[{c}]")))
 
     data["antennas"] = setup.to_dicts(plan, ch_ids)
+    # the fewest frequencies to ask for, when there are gaps: the site's request page shows them
+    data["requests"] = plan_requests(plan, setup, pred) if cells and data["gaps"] else None
     _antenna_warnings(plan, setup, pred, out)
     _noise_warnings(plan, labels, out, _scheduled(data))
     briefing.add_briefing(data, plan, setup, pred, gaps, out)
@@ -207,6 +210,7 @@ def _skeleton(plan: Plan, labels: list[str], allowed: np.ndarray, offset: int) -
         "gaps": [],
         "scan_lists": [],
         "antennas": [],
+        "requests": None,
         "safety": safety.cautions(),
         "diagnostics": [],
     }
@@ -278,8 +282,9 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
         got = d.get("window_good_days") or 0.0
         extra = (f"; no frequency reaches the target of {target_pct} of days for all of them, and "
                  f"{_and([c.id for c in inside])} already lie{'s' if len(inside) == 1 else ''} where the band does best "
-                 f"({win[0]:.2f}-{win[1]:.2f} MHz, about {int(100 * got)} % of days at the worst hour): more power, a "
-                 f"better antenna or a quieter receiving site will help, another channel will not.")
+                 f"for all of them together ({win[0]:.2f}-{win[1]:.2f} MHz, about {int(100 * got)} % of days at the "
+                 f"worst hour): more power, a better antenna or a quieter receiving site will help more than "
+                 f"another channel.")
     elif win is not None and reaches:
         extra = (f"; a channel between {win[0]:.2f} and {win[1]:.2f} MHz would serve them on at least "
                  f"{target_pct} of days.")

@@ -10,6 +10,8 @@ from __future__ import annotations
 
 import json
 
+from planpack.requests import contract as request_contract
+
 NUM = {"type": "number"}
 NUM_OR_NULL = {"type": ["number", "null"]}
 STR = {"type": "string"}
@@ -254,6 +256,8 @@ PLAN_JSON = {
         "gaps": _arr(GAP),
         "scan_lists": _arr(SCAN_LIST),
         "antennas": _arr(ANTENNA),
+        # what to ask the spectrum manager for (the contract of `planpack request --format json`); null without gaps
+        "requests": {"anyOf": [{"type": "null"}, request_contract.SCHEMA]},
         "safety": _obj({"cautions": _arr(_obj({"topic": STR, "title": STR, "text": STR}, required=["topic", "text"])), "deferral": STR,
                         "short": {"type": "array", "items": STR, "minItems": 3, "maxItems": 5}, "short_pointer": STR}),
     }, required=["planpack", "net", "revision", "assumptions", "stations", "channels", "links", "net_schedule",
