@@ -74,7 +74,7 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
     station_ids = [s.id for s in plan.stations]
     links = plan.links
     choices = schedule.link_choices(pred.good_days, pred.margin_db, allowed)
-    net_sched = schedule.net_schedule(pred.good_days, pred.margin_db, allowed)
+    net_sched = schedule.net_schedule(pred.good_days, pred.margin_db, allowed, target=net.target_good_days)
     gaps = schedule.find_gaps(pred.good_days, allowed, pred.luf_mhz, pred.owf_mhz, target=net.target_good_days,
                               margin_db=pred.margin_db, grid_good_days=pred.grid_good_days, grid_mhz=pred.grid_mhz,
                               channel_mhz=np.array([c.mhz for c in plan.channels]))

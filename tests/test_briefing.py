@@ -294,10 +294,10 @@ def test_fallback_uses_the_plans_instruction(gappy):
             assert fb["good_days_pct"] > 0 and fb["channel"] == h["second"]
 
 
-def test_demo_weak_hours_read_as_the_issue_asks(demos):
-    d = demos["danube-relief.yaml"]
-    texts = [r["text"] for r in d["net_schedule"]["weak_runs"]]
+def test_weak_hours_read_as_the_issue_asks(gappy, demos):
+    texts = [r["text"] for r in gappy[1].data["net_schedule"]["weak_runs"]]
     assert any("works on about 1 day in" in t and "expect to repeat calls" in t for t in texts)
+    d = demos["danube-relief.yaml"]
     assert d["revision"]["label"]
     assert d["net"]["utc_offset_label"] == "UTC+1" and len(d["net"]["periods"]) == 1
 

@@ -109,10 +109,10 @@ def test_internal_error_is_one_line(monkeypatch, capsys):
 
 
 def test_check_prints_analysis_warnings_for_demo():
-    r = run("check", "plans/danube-relief.yaml")
+    r = run("check", "plans/southern-alps-sar.yaml")
     assert r.returncode == 0
     assert "warning channel-gap" in r.stderr and "warning wasted-channel" in r.stderr
-    assert run("check", "--strict", "plans/danube-relief.yaml").returncode == 1
+    assert run("check", "--strict", "plans/southern-alps-sar.yaml").returncode == 1
 
 
 def test_every_command_module_is_registered_with_the_same_interface():

@@ -103,7 +103,7 @@ def test_sunrise_and_sunset_in_local_time(compiled):
 
 
 def test_gaps_become_check_warnings_with_a_window(compiled):
-    c = compiled["danube-relief.yaml"]
+    c = compiled["southern-alps-sar.yaml"]
     gaps = [d for d in c.diagnostics if d.code == "channel-gap"]
     assert gaps and len(gaps) == len(c.data["gaps"])
     assert all("local" in d.message and "UTC" in d.message for d in gaps)

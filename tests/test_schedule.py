@@ -689,3 +689,19 @@ def test_a_night_that_needs_two_channels_becomes_two_requests():
     assert [g.utc_hours for g in gaps] == [(18, 19, 20, 21, 22), (23, 0, 1, 2, 3, 4, 5, 6, 7)]
     assert all(g.window_reaches_target for g in gaps)
     assert gaps[0].window_mhz[0] > 3.3 and gaps[1].window_mhz[1] < 3.0
+
+
+def test_above_the_target_the_net_hardly_moves_for_more_of_what_it_has():
+    # one link, two channels: A works 0.80 all day; B 0.92 from 08 to 15 UTC. Without a target the
+    # 8 hours x 0.12 pay for two changes; with a target of 0.75 they count a quarter and do not
+    good = np.zeros((1, H, 2))
+    good[0, :, 0] = 0.80
+    good[0, 8:16, 1] = 0.92
+    margin = np.zeros_like(good)
+    plain = net_schedule(good, margin, everywhere(2), change_penalty=0.3)
+    held = net_schedule(good, margin, everywhere(2), change_penalty=0.3, target=0.75)
+    assert plain.changes_per_day == 2 and held.changes_per_day == 0
+    # below the target the net still moves: A at 0.60 is short of 0.75, B reaches it
+    good[0, :, 0] = 0.60
+    moved = net_schedule(good, margin, everywhere(2), change_penalty=0.3, target=0.75)
+    assert moved.changes_per_day == 2 and moved.first[10] == 1

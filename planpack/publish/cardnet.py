@@ -199,7 +199,8 @@ def net_legend(data: dict, look: Look, has_columns: bool) -> Flowable:
     text = f"<b>Works</b>: % of days on the weakest link{target}; white on black: below."
     if has_columns:
         text += (" <b>Station columns</b>: its channel if not the net's; "
-                 f"<b>{w}</b> below target; <b>{x}</b> gap, none reaches it.")
+                 f"<b>{w}</b> below target; <b>{x}</b> gap, none reaches it. A station without a column is on the "
+                 "net channel at every hour.")
     else:
         text += " Every station is on the net channel at every hour."
     return look.P(text)

@@ -46,6 +46,10 @@ from .choices import GOOD_DAYS_RESOLUTION, MARGIN_RESOLUTION_DB, _quantise, _ran
 #: the hours it lasts: rounding-level differences never move the net.
 DEFAULT_CHANGE_PENALTY = 0.05
 _MAX_PENALTY = 48.0  # beyond this the total gain can never pay for a change
+#: Above the plan's target a point of weakest-link good days counts this much of a point below it
+#: (a design choice): a change of channel that only adds reliability the net already has must buy
+#: four times as much to be worth a QSY some station will miss.
+ABOVE_TARGET_WEIGHT_DIVISOR = 4
 _MARGIN_CLIP_DB = 1e6  # keeps margin sums far from int64 overflow
 
 
@@ -118,7 +122,7 @@ def net_channel_order(good_days, margin_db, allowed) -> np.ndarray:
 
 def net_schedule(good_days, margin_db, allowed, *,
                  change_penalty: float = DEFAULT_CHANGE_PENALTY,
-                 cyclic: bool = True) -> NetSchedule:
+                 cyclic: bool = True, target: float | None = None) -> NetSchedule:
     """Choose one net channel per UTC hour, trading strength against changes.
 
     Parameters
@@ -134,6 +138,11 @@ def net_schedule(good_days, margin_db, allowed, *,
         Treat the day as repeating (count and penalise the change at
         midnight). False treats 00–23 UTC as one open stretch, for a net
         that runs a single day.
+    target : float in (0, 1], optional
+        The plan's target fraction of good days. When given, weakest-link
+        good days above it count a quarter (:data:`ABOVE_TARGET_WEIGHT_DIVISOR`)
+        in the trade against changes: the net moves to reach the target,
+        and hardly to add to what already meets it.
 
     Returns
     -------
@@ -158,7 +167,12 @@ def net_schedule(good_days, margin_db, allowed, *,
     weakest = np.asarray(good_days, dtype=float).min(axis=0)
 
     served = [h for h in range(_inputs.HOURS) if ok[h].any()]
-    path = _viterbi(ok[served], [k[served] for k in keys],
+    trade = list(keys)
+    if target is not None:
+        t = _quantise(np.float64(_inputs.fraction("target", target, open_low=True)), GOOD_DAYS_RESOLUTION)
+        w = keys[0]
+        trade[0] = np.minimum(w, t) + np.maximum(w - t, 0) // ABOVE_TARGET_WEIGHT_DIVISOR
+    path = _viterbi(ok[served], [k[served] for k in trade],
                     _quantise(np.float64(min(penalty, _MAX_PENALTY)), GOOD_DAYS_RESOLUTION),
                     cyclic) if served else []
     first: list[int | None] = [None] * _inputs.HOURS

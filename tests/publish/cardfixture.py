@@ -126,7 +126,7 @@ def _link(lid: str, a: str, b: str, km: float, az: float, offsets: list[int], ov
 
 
 def _swr_rows(classes: dict[str, str]) -> list[dict]:
-    table = {"fine": (1.3, "1.3:1"), "tuner": (2.4, "2.4:1"), "poor": (999.0, "> 50:1")}
+    table = {"fine": (1.3, "1.3:1"), "tuner": (2.4, "2.4:1"), "poor": (50.0, "> 50:1")}  # plan.json caps SWR at 50
     return [{"channel": cid, "freq_khz": khz, "impedance_ohm": [48.0, -12.0], "swr": table[classes.get(cid, "tuner")][0],
              "swr_text": table[classes.get(cid, "tuner")][1], "swr_class": classes.get(cid, "tuner"),
              "mismatch_loss_db": 0.2, "feedline_loss_db": 0.4} for cid, khz, _ in CHANNELS]

@@ -82,7 +82,8 @@ def test_gap_hours_per_link_agree_on_overview_link_pages_and_net_card(built):
         for ln in d["links"]:
             member = ln["to"] if ln["from"] == control else ln["from"]
             address = next(s["address"] for s in d["stations"] if s["id"] == member)
-            assert crosses[address] == set(ln["gap_utc_hours"]), (net, ln["id"])
+            # a station without a column follows the net channel at every hour: it has no gap hours
+            assert crosses.get(address, set()) == set(ln["gap_utc_hours"]), (net, ln["id"])
 
 
 def _net_card_crosses(pdf: bytes, d: dict) -> dict[str, set[int]]:
