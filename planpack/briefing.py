@@ -34,6 +34,7 @@ from planpack.antennas.cut import feet_inches, quarter_wave_rule_m
 from planpack.ionosphere import geodesy
 from planpack.plan.diagnostics import Collector
 from planpack.plan.models import Plan, Station
+from planpack.scheduling.windows import serving_window
 from planpack.schedule import address_words, cyclic_runs, format_hours, scanning_call_time
 
 #: Kinds of antenna that are horizontal wires (they have a direction to run).
@@ -187,11 +188,11 @@ def _hour_rows(firsts, first_fracs, seconds, second_fracs, target: float, net: d
     return rows
 
 
-def _window(luf_mhz: float | None, owf_mhz: float | None) -> list[float] | None:
-    """The usable window [LUF, OWF] [MHz] as the gap finder takes it, or None when there is none."""
-    if luf_mhz is None or owf_mhz is None or luf_mhz != luf_mhz or owf_mhz != owf_mhz or luf_mhz >= owf_mhz:
-        return None
-    return [round(float(luf_mhz), 2), round(float(owf_mhz), 2)]
+def _window(grid_good_days, grid_mhz, target: float) -> list[float] | None:
+    """The frequencies [MHz] on which every given link reaches the target at an hour, read off the band
+    grid with each station's own antennas, as the gap finder reads its windows; None when there are none."""
+    w, _ = serving_window(np.atleast_2d(grid_good_days), grid_mhz, target, best_effort=False)
+    return None if w is None else [round(w.low_mhz, 2), round(w.high_mhz, 2)]
 
 
 def _inside(freq_khz: float, win: list[float] | None) -> bool:
@@ -200,14 +201,14 @@ def _inside(freq_khz: float, win: list[float] | None) -> bool:
 
 def _net_grid(data: dict, plan: Plan, pred) -> None:
     """Per net hour and channel: the weakest link's good days, whether authorised, whether inside the net's
-    window (the highest LUF to the lowest OWF over the links): the cells of the schedule's timetable."""
+    window (where a channel would reach the target on every link): the cells of the schedule's timetable."""
     allowed = {c["id"]: set(c["allowed_utc_hours"]) for c in data["channels"]}
     n = pred.good_days.shape[0]
+    target = float(data["net"]["target_good_days"])
     for h, hr in enumerate(data["net_schedule"]["hours"]):
         win = None
         if n:
-            win = _window(float(np.max(pred.luf_mhz[:, h])) if not np.isnan(pred.luf_mhz[:, h]).any() else None,
-                          float(np.min(pred.owf_mhz[:, h])))
+            win = _window(pred.grid_good_days[:, h, :], pred.grid_mhz, target)
         hr["window_mhz"] = win
         hr["channels"] = [{
             "channel": ch.id,
@@ -272,7 +273,8 @@ def _gap_short(data: dict, entry: dict, labels: list[list[str]]) -> str:
             f"{advice.rstrip('.')}")
 
 
-def _link_hours(data: dict, good: np.ndarray, ch_index: dict[str, int], labels) -> None:
+def _link_hours(data: dict, pred, ch_index: dict[str, int], labels) -> None:
+    good = pred.good_days
     target = float(data["net"]["target_good_days"])
     gap_hours: dict[str, set[int]] = {ln["id"]: set() for ln in data["links"]}
     for g in data["gaps"]:
@@ -289,7 +291,7 @@ def _link_hours(data: dict, good: np.ndarray, ch_index: dict[str, int], labels) 
             hr["weak"] = bool(f is None or f < target - 1e-9)
             hr["gap"] = h in gap_hours[ln["id"]]
             hr["local_times"] = [lab[h] for lab in labels]
-            win = _window(hr.get("luf_mhz"), hr.get("owf_mhz"))
+            win = _window(pred.grid_good_days[li, h], pred.grid_mhz, target)
             hr["window_mhz"] = win
             for cell in hr.get("channels", []):
                 cell["good_days_pct"] = pct(cell["good_days"])
@@ -568,7 +570,7 @@ def add_briefing(data: dict, plan: Plan, setup, pred, gaps, out: Collector) -> N
     _gap_links_by_hour(data, gaps, [ln["id"] for ln in data["links"]], labels)
     _net_hours(data, labels, plan.net.fallback)
     _net_grid(data, plan, pred)
-    _link_hours(data, pred.good_days, ch_index, labels)
+    _link_hours(data, pred, ch_index, labels)
     for st, s in zip(data["stations"], plan.stations):
         st["brief"] = _station_brief(plan, setup, pred, data, s, labels, ch_index, out)
     picks = {st["id"]: [r["antenna"] for r in st["brief"]["antenna_by_channel"]] for st in data["stations"]}

@@ -308,8 +308,19 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
         "no_window_reason": d.get("no_window_reason"),
         "window_good_days": _r(d.get("window_good_days"), 3),
         "window_reaches_target": bool(d.get("window_reaches_target")),
+        "window_text": _window_text(win, reaches, d.get("window_good_days"), target_pct),
         "message": message,
     }
+
+
+def _window_text(win, reaches: bool, good: float | None, target_pct: str) -> str:
+    """A gap's window as pages and cards print it."""
+    if win is None:
+        return "no single frequency closes it"
+    span = f"{win[0]:.2f}–{win[1]:.2f} MHz"
+    if reaches:
+        return span
+    return f"none reaches {target_pct}; best {span} ({int(100 * (good or 0.0))} % of days)"
 
 
 #: The last sentence of every gap warning.

@@ -612,7 +612,7 @@ def _gap_rows(net: _Net, only_link: str | None = None) -> tuple[GapRow, ...]:
         if only_link is not None and only_link not in g["links"]:
             continue
         w = g.get("window_mhz")
-        window = "no single frequency closes it" if not w else f"{w[0]:.1f}–{w[1]:.1f} MHz"
+        window = g.get("window_text") or ("no single frequency closes it" if not w else f"{w[0]:.1f}–{w[1]:.1f} MHz")
         every = {ln["id"] for ln in net.data["links"]}
         if len(every) > 2 and set(g["links"]) == every:
             links = (NavItem("schedule.html#h-links", f"all {len(every)} links"),)

@@ -86,3 +86,28 @@ def test_every_gap_message_is_a_whole_sentence(name):
         assert text.endswith("."), text
         assert not re.search(r"\bwould\.?$", text), text       # never "a channel ... would" cut short
         assert not re.search(r"between ([\d.]+) and \1 MHz", text), text
+
+
+@pytest.mark.parametrize("name", ["tropics_august.yaml", "sea_path.yaml", "highband_january.yaml"])
+def test_no_swr_of_999_anywhere(name):
+    """SWR beyond 50:1 reads "> 50:1" in plan.json's texts and in every message; never 999."""
+    compiled = compile_plan(_plan(name))
+    for a in compiled.data["antennas"]:
+        for c in a["channels"]:
+            assert c["swr"] <= 50 and "999" not in c["swr_text"]
+    assert not any(re.search(r"\b999(\.0)?:1", d.message) for d in compiled.diagnostics)
+
+
+def test_dipole_with_a_feedpoint_coupler_loses_little_across_the_band():
+    """The issue's figure: a 3.94 MHz dipole with a feed-point coupler was charged 23 dB at 2.31 MHz; an
+    automatic coupler at the feed point matches such a wire with a decibel or two (common practice, no
+    source). In the tropics plan the 3.9 MHz dipole loses at most 6 dB on every channel 0.5-2.5 f0
+    away from full-wave resonance (1.8-2.2 f0)."""
+    compiled = compile_plan(_plan("tropics_august.yaml"))
+    (a,) = compiled.data["antennas"]
+    f0 = a["design_khz"]
+    band = a["band"]
+    for f, loss in zip(band["freq_khz"], band["system_loss_db"]):
+        r = f / f0
+        if 0.5 <= r <= 2.5 and not 1.8 <= r <= 2.2:
+            assert loss <= 6.0, (f, loss)
