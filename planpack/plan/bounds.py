@@ -13,24 +13,30 @@ reports it, and ``build`` never starts it.
   the scenarios are every month the validity period touches times each end
   of a solar range (the time the predictions take);
 - antenna solutions: at most :data:`MAX_ANTENNA_SOLUTIONS` NEC-2 solutions,
-  one per channel for each antenna over each ground it is used on.
+  one per channel and per point of the band grid (:mod:`planpack.bandgrid`)
+  for each antenna over each ground it is used on (a wire antenna's ground is
+  its soil; a whip's, its soil and ground system).
 
 The bounds come from measurements of ``planpack check`` (bench/robustness.py
 prints them): a 60-station all-pairs net on 40 channels for one month,
 70 800 link·channel pairs, takes about 15 s and 430 MB (each further month or
 solar level about 8 s more); the 500-station, 200-channel load test (99 800
 pairs) about 16 s and 520 MB; an antenna design over one ground takes 1-3 s of
-NEC-2 for 40 channels.
+NEC-2 for 40 channels; each frequency over a real soil costs nec2++ about
+20-35 ms (its Sommerfeld tables), so 2000 solutions take under a minute on two
+cores.
 """
 
 from __future__ import annotations
 
 import datetime as dt
 
+from planpack import bandgrid
+
 MAX_LINKS = 2000
 MAX_LINK_CHANNELS = 100_000
 MAX_PREDICTIONS = 250_000
-MAX_ANTENNA_SOLUTIONS = 1_200
+MAX_ANTENNA_SOLUTIONS = 2_000
 
 
 def link_count(links, n_stations: int, has_control: bool) -> int:
@@ -72,14 +78,18 @@ def problems(data: dict) -> list[tuple[str, str]]:
                                  f"shorten net.valid, give one solar value instead of a range, {how}, or assign "
                                  "fewer channels"))
     uses = set()
+    antennas = data["antennas"]
     for st in stations.values():
         for a in (st["antenna"] if isinstance(st["antenna"], list) else [st["antenna"]]):
-            uses.add((a, st["ground"]["soil"], st["ground"]["system"]))
+            whip = isinstance(antennas.get(a), dict) and antennas[a].get("kind") == "whip"
+            uses.add((a, st["ground"]["soil"], st["ground"]["system"] if whip else None))
     used = {a for a, _, _ in uses}
-    solutions = (len(uses) + sum(a not in used for a in data["antennas"])) * n_ch
+    per_job = n_ch + bandgrid.GRID_POINTS
+    solutions = (len(uses) + sum(a not in used for a in antennas)) * per_job
     if solutions > MAX_ANTENNA_SOLUTIONS:
-        out.append(("antennas", f"{len(data['antennas'])} antennas over the grounds of the stations that use them, on "
-                                f"{n_ch} channels, are {solutions} NEC-2 solutions; planpack solves at most "
+        out.append(("antennas", f"{len(antennas)} antennas over the grounds of the stations that use them, on "
+                                f"{n_ch} channels and the {bandgrid.GRID_POINTS}-point band grid, are {solutions} "
+                                f"NEC-2 solutions; planpack solves at most "
                                 f"{MAX_ANTENNA_SOLUTIONS} for a plan: share antenna designs between stations, "
                                 "remove antennas no station uses, or assign fewer channels"))
     return out

@@ -59,5 +59,5 @@ def test_antenna_solutions_are_bounded(write_plan):
     result = read_plan(write_plan(text))
     errors = [d for d in result.diagnostics if d.severity == "error"]
     assert [d.code for d in errors] == ["plan-too-large"]
-    assert errors[0].key == "antennas" and "1320 NEC-2 solutions" in errors[0].message
+    assert errors[0].key == "antennas" and "2673 NEC-2 solutions" in errors[0].message  # 33 jobs x (40 + 41)
     assert (errors[0].line, errors[0].column) == position(text, "own-0:")  # the antennas section
