@@ -262,8 +262,13 @@ def _weakest_links(good: np.ndarray, firsts: list[int | None]) -> list[int | Non
 def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
     names = [link_id(*links[i]) for i in d["links"]]
     hours = d["utc_hours"]
-    local = schedule.format_hours(hours, labels)
     utc = schedule.format_hours(hours)
+    offsets = localtime.utc_offsets_min(plan.net.timezone, plan.net.valid_from, plan.net.valid_to)
+    if len(offsets) > 1:  # a clock change: local times on both sides of it
+        local = " or ".join(f"{schedule.format_hours(hours, localtime.local_labels(o))} {localtime.offset_label(o)}"
+                            for o in offsets)
+    else:
+        local = schedule.format_hours(hours, labels)
     pretty = ", ".join(f"{a}–{b}" for a, b in (links[i] for i in d["links"]))
     win = d["window_mhz"]
     target_pct = f"{round(100 * plan.net.target_good_days):d} %"

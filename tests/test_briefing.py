@@ -323,3 +323,11 @@ def test_every_cut_length_also_in_feet_and_inches(gappy, demos):
                     ft = cut[key[:-2] + "_ft_in"]
                     feet, inches = re.match(r"(\d+) ft (\d+)", ft).groups()
                     assert (int(feet) * 12 + int(inches)) * 0.0254 == pytest.approx(value, abs=0.0254)
+
+
+def test_gap_warnings_give_local_times_on_both_sides_of_a_clock_change(gappy):
+    # the gappy net runs across 2027-03-28, when Europe/London moves from UTC to UTC+1
+    gaps = [d for d in gappy[1].diagnostics if d.code == "channel-gap"]
+    assert gaps
+    for d in gaps:
+        assert " UTC or " in d.message and " UTC+1 local (" in d.message, d.message
