@@ -5,7 +5,8 @@ The compile cache checks every entry against the schema of ``plan.json``
 but it is a test dependency only; this checker covers the subset of draft
 2020-12 those schemas are written in (``type``, ``properties``, ``required``,
 ``additionalProperties``, ``items``, ``minItems``, ``maxItems``, ``enum``,
-``const``, ``anyOf``, ``oneOf``, ``minimum``, ``maximum``, ``pattern``) and
+``const``, ``anyOf``, ``oneOf``, ``minimum``, ``maximum``, ``exclusiveMinimum``,
+``exclusiveMaximum``, ``uniqueItems``, ``pattern``) and
 refuses a schema that uses any other keyword, so it can never pass something
 it did not check. tests/workflow/test_schemacheck.py compares it with
 ``jsonschema`` on valid and damaged documents.
@@ -18,7 +19,8 @@ from functools import lru_cache
 
 ANNOTATIONS = {"$schema", "$id", "title", "description", "default", "$comment", "examples"}
 CHECKED = {"type", "properties", "required", "additionalProperties", "items", "minItems", "maxItems", "enum",
-           "const", "anyOf", "oneOf", "minimum", "maximum", "pattern"}
+           "const", "anyOf", "oneOf", "minimum", "maximum", "exclusiveMinimum", "exclusiveMaximum", "uniqueItems",
+           "pattern"}
 
 
 class SchemaError(ValueError):
@@ -83,6 +85,10 @@ def first_error(value, schema: dict, path: str = "$") -> str | None:
             return f"{path}: below {schema['minimum']}"
         if "maximum" in schema and value > schema["maximum"]:
             return f"{path}: above {schema['maximum']}"
+        if "exclusiveMinimum" in schema and value <= schema["exclusiveMinimum"]:
+            return f"{path}: not above {schema['exclusiveMinimum']}"
+        if "exclusiveMaximum" in schema and value >= schema["exclusiveMaximum"]:
+            return f"{path}: not below {schema['exclusiveMaximum']}"
     if isinstance(value, str) and "pattern" in schema and not _pattern(schema["pattern"]).search(value):
         return f"{path}: does not match {schema['pattern']}"
     if isinstance(value, list):
@@ -90,6 +96,9 @@ def first_error(value, schema: dict, path: str = "$") -> str | None:
             return f"{path}: fewer than {schema['minItems']} items"
         if "maxItems" in schema and len(value) > schema["maxItems"]:
             return f"{path}: more than {schema['maxItems']} items"
+        if schema.get("uniqueItems") and any(_equal(value[i], value[j]) for i in range(len(value))
+                                             for j in range(i + 1, len(value))):
+            return f"{path}: items are not unique"
         if "items" in schema:
             for i, item in enumerate(value):
                 err = first_error(item, schema["items"], f"{path}[{i}]")

@@ -78,6 +78,11 @@ def test_agrees_with_jsonschema_on_damaged_plans(data):
     ([1, 2], {"type": "array", "maxItems": 1}, False),
     ({"a": 1}, {"type": "object", "additionalProperties": False}, False),
     (None, {"anyOf": [{"type": "null"}, {"type": "string"}]}, True),
+    (0, {"type": "number", "exclusiveMinimum": 0}, False),
+    (0.5, {"type": "number", "exclusiveMinimum": 0}, True),
+    (1, {"type": "number", "exclusiveMaximum": 1}, False),
+    ([1, 2, 1], {"type": "array", "uniqueItems": True}, False),
+    ([1, 2, 3], {"type": "array", "uniqueItems": True}, True),
 ])
 def test_keyword_cases(value, schema, ok):
     assert (first_error(value, schema) is None) == ok
