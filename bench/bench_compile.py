@@ -30,7 +30,7 @@ from planpack.stationsetup import solve_station_antennas  # noqa: E402
 
 DESIGNS = """\
   d1: {kind: dipole, design_khz: 4500, height_m: 8, matching: feedpoint-coupler}
-  d2: {kind: inverted-v, design_khz: 3400, height_m: 12, apex_deg: 120, matching: feedpoint-coupler}
+  d2: {kind: inverted-v, design_khz: 3400, height_m: 13, apex_deg: 120, matching: feedpoint-coupler}
   d3: {kind: dipole, design_khz: 6800, height_m: 7, matching: wide-tuner}
   d4: {kind: folded-terminated, height_m: 12}
   d5: {kind: dipole-reflector, design_khz: 5300, height_m: 8}
