@@ -346,8 +346,9 @@ def _skeleton(plan: Plan, pred, grid, mode_id: str, labels, offset: int) -> dict
             "reaches the target on that link then; gap_hours counts the (link, hour) pairs the plan's gaps name, as "
             "plan.json's gaps do",
             "new channels are authorised at every hour",
-            "each station's antennas: today the gain table of its nearest assigned channel is used at every "
-            "candidate; solving the antennas across the band replaces this",
+            "each station's antennas at each candidate: from its antennas solved across the band (feed-point "
+            "impedance and pattern interpolated between the solved frequencies, matching and feedline losses at "
+            "the candidate itself)",
             "fractions of good days are compared in thousandths for the tie-break",
         ],
         "local_time_labels": list(labels),
