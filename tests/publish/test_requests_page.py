@@ -124,7 +124,8 @@ def test_the_page_has_the_marking_and_revision_and_says_how_to_get_markdown_and_
     page = files[f"test-net/{PAGE_NAME}"].decode()
     assert page.count('class="marking marking-') == 2 and "EXERCISE ONLY" in page
     assert asked["revision"]["label"] in page and "test-net/marking.css" in files
-    assert "planpack request PLAN --format markdown" in page and "planpack request PLAN --pdf FILE" in page
+    shown = text_of(page)
+    assert "planpack request PLAN --format markdown" in shown and "planpack request PLAN --pdf FILE" in shown
     assert f'<a href="{SHEET_NAME}">' in page
     # the sheet is linked only when the build wrote one (serve, or a site rendered alone, has none)
     assert f'href="{SHEET_NAME}"' not in site.render_site([asked])[f"test-net/{PAGE_NAME}"].decode()
