@@ -86,6 +86,7 @@ def run(args) -> int:
     ncards = sum(len(v) for v in rendered.card_names.values())
     again = f"; {len(rendered.reused)} of {len(rendered.reused) + len(rendered.rendered)} parts unchanged" \
         if rendered.reused else ""
-    progress.say(f"built {plural(n, 'net')} ({pages} pages, {plural(ncards, 'card file')}, "
+    sheets = f"{plural(len(rendered.sheet_names), 'request sheet')}, " if rendered.sheet_names else ""
+    progress.say(f"built {plural(n, 'net')} ({pages} pages, {plural(ncards, 'card file')}, {sheets}"
                  f"{plural(len(diags), 'warning')}{again}) into {out} in {time.monotonic() - started:.1f} s")
     return code

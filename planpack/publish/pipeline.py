@@ -2,7 +2,8 @@
 
 ``build``, ``cards`` and ``serve`` compile through :func:`compile_results` (the
 compile cache answers plans whose bytes did not change). Rendering goes unit
-by unit, the cards of each net and then the site: a unit whose inputs, renderer
+by unit, the cards of each net, its frequency request sheet (when the plan
+has gaps) and then the site: a unit whose inputs, renderer
 and options are unchanged is taken from the previous publish into the same
 folder, checked file by file against the hashes recorded when it was written
 (:mod:`planpack.workflow.reuse`); anything else is rendered afresh. Nothing is
@@ -47,6 +48,7 @@ class Rendered:
 
     files: dict[str, bytes] = field(default_factory=dict)
     card_names: dict[str, list[str]] = field(default_factory=dict)  # net id -> card file names
+    sheet_names: dict[str, str] = field(default_factory=dict)  # net id -> request sheet beside its pages
     notes: dict[str, list[str]] = field(default_factory=dict)  # net id -> card warnings (glyphs the font lacks)
     rendered: list[str] = field(default_factory=list)  # units rendered in this run
     reused: list[str] = field(default_factory=list)  # units taken from the previous publish
@@ -160,10 +162,18 @@ def _start(out, use_cache: bool):
     return reuse, (renderer_key() if use_cache else ""), (lambda paths: output.read_previous(out, paths))
 
 
+def _render_sheet(data: dict) -> bytes:
+    from planpack.publish.requestsheet import render_request_sheet
+
+    return render_request_sheet(data["requests"])
+
+
 def render_build(pairs, *, out, with_cards: bool = True, use_cache: bool = True,
                  step: Step | None = None) -> Rendered:
-    """The site and (``with_cards``) the field cards of every net, as files under ``out``.
+    """The site, the request sheet of every net with gaps and (``with_cards``) the field cards, as files under ``out``.
 
+    The request sheet (``<net>/request.pdf``, one page) is its own unit, keyed on plan.json's ``requests``
+    alone; it is no field card, so ``with_cards=False`` keeps it (the Requests page links it).
     Raises CardsRefused when a net's cards cannot be laid out.
     """
     reuse, renderer, read = _start(out, use_cache)
@@ -174,6 +184,8 @@ def render_build(pairs, *, out, with_cards: bool = True, use_cache: bool = True,
     site = None
     for i, (r, c) in enumerate(pairs, 1):
         nid = c.data["net"]["id"]
+        if c.data.get("requests"):
+            _take_sheet(result, c.data, reuse, renderer, read, use_cache)
         if not with_cards:
             continue
         unit = f"cards:{nid}"
@@ -195,14 +207,15 @@ def render_build(pairs, *, out, with_cards: bool = True, use_cache: bool = True,
     # reading warnings are not in plan.json; the analysis ones usually are (shown once)
     warnings = {c.data["net"]["id"]: [d.to_dict() for d in list(r.diagnostics) + list(c.diagnostics)] for r, c in pairs}
     nets = [c.data for _, c in pairs]
-    key = unit_key("site", {"nets": nets, "warnings": warnings, "cards": result.card_names}, renderer) if use_cache else ""
+    key = unit_key("site", {"nets": nets, "warnings": warnings, "cards": result.card_names,
+                            "sheets": result.sheet_names}, renderer) if use_cache else ""
     got = reuse.take("site", key, read)
     if got is None:
         if step:
             step(n, n, "rendering the site")
         from planpack.publish import site
 
-        got = site.render_site(nets, warnings=warnings, cards=result.card_names)
+        got = site.render_site(nets, warnings=warnings, cards=result.card_names, sheets=result.sheet_names)
         result.rendered.append("site")
     else:
         result.reused.append("site")
@@ -213,6 +226,25 @@ def render_build(pairs, *, out, with_cards: bool = True, use_cache: bool = True,
     result.files.update(got)
     result.files = dict(sorted(result.files.items()))
     return result
+
+
+def _take_sheet(result: Rendered, data: dict, reuse, renderer: str, read, use_cache: bool) -> None:
+    """The net's one-page request sheet: reused when plan.json's request and the renderer are unchanged."""
+    from planpack.publish import requestpage, site
+    from planpack.workflow.reuse import unit_key
+
+    nid = data["net"]["id"]
+    unit = f"request:{nid}"
+    key = unit_key("build-request", {"requests": data["requests"]}, renderer) if use_cache else ""
+    got = reuse.take(unit, key, read)
+    if got is None:
+        got = {f"{site.safe_name(nid)}/{requestpage.SHEET_NAME}": _render_sheet(data)}
+        result.rendered.append(unit)
+    else:
+        result.reused.append(unit)
+    reuse.note(unit, key, got)
+    result.files.update(got)
+    result.sheet_names[nid] = requestpage.SHEET_NAME
 
 
 def render_card_files(pairs, *, out, size: str | None = None, impose: str | None = None,

@@ -195,7 +195,7 @@ def render_request_sheet(d: dict, sheet: str = "a4") -> bytes:
     c.setLineWidth(0.6)
     c.line(MARGIN, foot + FOOT_PT + 1.5, w - MARGIN, foot + FOOT_PT + 1.5)
     c.setFont(R, FOOT_PT)
-    c.drawString(MARGIN, foot, f"rev {rev}")
+    c.drawString(MARGIN, foot, d["revision"].get("label") or f"rev {rev}")  # as the cards and the site print it
     c.drawCentredString(w / 2, foot, f"net {d['net']['id']}")
     c.setFont(B, FOOT_PT)
     c.drawRightString(w - MARGIN, foot, "frequency request, page 1 / 1")

@@ -24,7 +24,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from planpack.labels import CUT_LABEL
-from planpack.publish import charts
+from planpack.publish import charts, requestpage
 
 def _templates_dir() -> Path:
     """site_templates/ beside the package (a source checkout or editable install), else where a wheel puts it."""
@@ -256,6 +256,13 @@ class KeyValue:
 
 
 @dataclass(frozen=True)
+class RequestLink:
+    """Where a net's frequency request is, and its one-paragraph summary (plan.json's words)."""
+    href: str
+    summary: str
+
+
+@dataclass(frozen=True)
 class OverviewPage:
     frame: Frame
     title: str
@@ -280,6 +287,8 @@ class OverviewPage:
     cards: tuple[NavItem, ...]
     weak: tuple[str, ...]
     clock: tuple[str, ...]
+    gaps: tuple[str, ...] = ()
+    request: RequestLink | None = None
 
 
 @dataclass(frozen=True)
@@ -346,6 +355,7 @@ class SchedulePage:
     rows: tuple[HourRow, ...]
     gaps: tuple[GapRow, ...]
     links: tuple[LinkRow, ...]
+    request: RequestLink | None = None
 
 
 @dataclass(frozen=True)
@@ -513,6 +523,12 @@ class _Net:
     data: dict
     extra_warnings: list[dict] = field(default_factory=list)
     cards: tuple[str, ...] = ()
+    sheet: str | None = None  # the request sheet beside the pages, when the build wrote one
+
+    @property
+    def requests(self) -> dict | None:
+        """plan.json's frequency request; None when the plan has no gaps."""
+        return self.data.get("requests")
 
     @property
     def id(self) -> str:
@@ -553,8 +569,11 @@ def _frame(net: _Net | None, *, page: str, title: str, heading: str, root: str, 
            revision: dict | None, generator: dict | None, base_url: str | None) -> Frame:
     nav: list[NavItem] = []
     if net is not None:
-        items = [("index.html", "Overview"), ("schedule.html", "Schedule"), ("index.html#h-stations", "Stations"),
-                 ("scan.html", "Scan lists & instructions"), ("antennas.html", "Antennas"), ("safety.html", "Safety")]
+        items = [("index.html", "Overview"), ("schedule.html", "Schedule")]
+        if net.requests:
+            items.append((requestpage.PAGE_NAME, "Requests"))
+        items += [("index.html#h-stations", "Stations"), ("scan.html", "Scan lists & instructions"),
+                  ("antennas.html", "Antennas"), ("safety.html", "Safety")]
         nav = [NavItem(href, label, href == page or (href == "antennas.html" and page.startswith("antenna-"))
                        or (href == "schedule.html" and page.startswith("link-"))
                        or (label == "Stations" and page.startswith("station-"))) for href, label in items]
@@ -761,7 +780,21 @@ def _overview(net: _Net) -> OverviewPage:
         links=_link_rows(net), map_src="charts/map.svg",
         map_alt=f"Map of the {len(d['stations'])} stations and {len(d['links'])} links; the station table below gives every position.",
         warnings=warnings, cards=tuple(NavItem(f"cards/{c}", c) for c in net.cards),
-        weak=tuple(r["text"] for r in d["net_schedule"].get("weak_runs", [])), clock=_clock_lines(n))
+        weak=tuple(r["text"] for r in d["net_schedule"].get("weak_runs", [])), clock=_clock_lines(n),
+        gaps=tuple(str(g.get("short") or g.get("message") or "") for g in d.get("gaps", [])),
+        request=_request_link(net))
+
+
+def _request_link(net: _Net) -> RequestLink | None:
+    r = net.requests
+    return None if not r else RequestLink(requestpage.PAGE_NAME, str(r["summary"]))
+
+
+def _requests(net: _Net) -> requestpage.RequestsPage:
+    links = {ln["id"] for ln in net.data["links"]}
+    return requestpage.requests_page(
+        net.data, _net_frame(net, requestpage.PAGE_NAME, "Frequency request"),
+        link_href=lambda lid: f"link-{safe_name(lid)}.html" if lid in links else None, sheet=net.sheet)
 
 
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
@@ -877,7 +910,8 @@ def _schedule(net: _Net) -> SchedulePage:
         changes=str(d["net_schedule"].get("changes_per_day", "–")), target=pct(net.target),
         weak=tuple(r["text"] for r in d["net_schedule"].get("weak_runs", [])),
         grid=_grid(net, "net-grid", "How often each channel works on the weakest link, hour by hour (% of days)", hours),
-        periods=_period_headers(d["net"]), rows=_hour_rows(net, hours), gaps=_gap_rows(net), links=_link_rows(net))
+        periods=_period_headers(d["net"]), rows=_hour_rows(net, hours), gaps=_gap_rows(net), links=_link_rows(net),
+        request=_request_link(net))
 
 
 def _link_page(net: _Net, ln: dict, row: LinkRow) -> LinkPage:
@@ -1074,12 +1108,13 @@ def marking_css(marking: str) -> str:
 
 
 def render_site(nets: list[dict], *, warnings: dict[str, list[dict]] | None = None,
-                cards: dict[str, list[str]] | None = None) -> dict[str, bytes]:
+                cards: dict[str, list[str]] | None = None, sheets: dict[str, str] | None = None) -> dict[str, bytes]:
     """Render every net's pages; returns {relative path: bytes}, keys sorted.
 
     nets: compiled plans' data dicts (plan.json contents).
     warnings: extra diagnostics per net id (from reading the plan) to show beside the analysis warnings.
     cards: card file names per net id, already written under ``<net>/cards/``; the site links them.
+    sheets: the request sheet's file name per net id, written beside the net's pages; its Requests page links it.
     """
     env = _environment()
     ids = [d["net"]["id"] for d in nets]
@@ -1087,7 +1122,8 @@ def render_site(nets: list[dict], *, warnings: dict[str, list[dict]] | None = No
     if len(set(dirs)) != len(dirs):
         dup = sorted({i for i in ids if dirs.count(safe_name(i)) > 1})
         raise ValueError(f"two plans share the net id {', '.join(dup)}; each net needs its own id")
-    models = [_Net(d, list((warnings or {}).get(d["net"]["id"], [])), tuple(sorted((cards or {}).get(d["net"]["id"], []))))
+    models = [_Net(d, list((warnings or {}).get(d["net"]["id"], [])), tuple(sorted((cards or {}).get(d["net"]["id"], []))),
+                   (sheets or {}).get(d["net"]["id"]) if d.get("requests") else None)
               for d in sorted(nets, key=lambda d: d["net"]["id"])]
     files: dict[str, bytes] = {}
 
@@ -1102,6 +1138,8 @@ def render_site(nets: list[dict], *, warnings: dict[str, list[dict]] | None = No
             files[base + "marking.css"] = marking_css(d["net"]["handling"]).encode("utf-8")
         page(base + "index.html", "overview.html", _overview(net))
         page(base + "schedule.html", "schedule.html", _schedule(net))
+        if net.requests:
+            page(base + requestpage.PAGE_NAME, "requests.html", _requests(net))
         for ln, row in zip(d["links"], _link_rows(net)):
             page(base + row.href, "link.html", _link_page(net, ln, row))
         scan = _scan(net)

@@ -26,6 +26,7 @@ import numpy as np
 from scipy import sparse
 
 from planpack import localtime, schedule
+from planpack.briefing import pct as whole_pct
 from planpack.plan.models import Plan, Request
 from planpack.predictions import predict_links
 from planpack.requests import candidates, coverage, optimise, physics, reasons, report, windows
@@ -62,6 +63,13 @@ def _link_id(a: str, b: str) -> str:
 
 def _r(x, nd=3):
     return None if x is None or not np.isfinite(x) else round(float(x), nd) + 0.0
+
+
+def _fraction(key: str, x) -> dict:
+    """``{key: fraction [0-1], key_pct: whole percent}``: the percent from the stored fraction, rounded down
+    as every page and card rounds it, so renderers print it and compute nothing."""
+    f = _r(x)
+    return {key: f, f"{key}_pct": whole_pct(f)}
 
 
 class _Clock:
@@ -181,13 +189,13 @@ def plan_requests(plan: Plan, setup, pred=None, *, max_new: int | None = None, b
             "window_khz": [_r(grid.freqs_khz[w.low]), _r(grid.freqs_khz[w.high])],
             "serves": _serves(gp.need[rows], links, labels),
             "pairs": int(rows.size),
-            "worst_good_days": _r(vals.min()) if vals.size else None,
+            **_fraction("worst_good_days", vals.min() if vals.size else None),
             "net_channel_utc_hours": list(w.net_hours),
         })
     name = dict(enumerate(ids))
     out["merges"] = [{
         "proposals": [name[m.pair[0]], name[m.pair[1]]], "khz": _r(grid.freqs_khz[m.index]),
-        "window_khz": [_r(grid.freqs_khz[m.low]), _r(grid.freqs_khz[m.high])], "worst_good_days": _r(m.worst),
+        "window_khz": [_r(grid.freqs_khz[m.low]), _r(grid.freqs_khz[m.high])], **_fraction("worst_good_days", m.worst),
         "message": _merge_message(name[m.pair[0]], name[m.pair[1]], m, grid, target),
     } for m in merges]
 
@@ -308,7 +316,7 @@ def _unservable(pairs, cov, rows, pred, allowed, grid, target, labels, plan) -> 
         order = np.argsort(hs)
         out.append({"link": _link_id(*plan.links[l]), "utc_hours": [hs[i] for i in order],
                     "local_hours": [labels[hs[i]] for i in order], "reason": code, "message": msg,
-                    "best_good_days": _r(best[members][b])})
+                    **_fraction("best_good_days", best[members][b])})
     return out
 
 
@@ -322,6 +330,7 @@ def _skeleton(plan: Plan, pred, grid, mode_id: str, labels, offset: int) -> dict
                 "utc_offset": f"{sign}{abs(offset) // 60:02d}:{abs(offset) % 60:02d}"},
         "revision": plan_revision(plan.source, plan.sha256).to_dict(),
         "target_good_days": float(net.target_good_days),
+        "target_good_days_pct": whole_pct(float(net.target_good_days)),
         "mode": {"id": mode_id, "snr_db": m.snr_db, "bandwidth_hz": m.bandwidth_hz},
         "scenarios": pred.assumptions.get("scenarios", []),
         "candidates": grid.describe(),
@@ -337,8 +346,9 @@ def _skeleton(plan: Plan, pred, grid, mode_id: str, labels, offset: int) -> dict
             "reaches the target on that link then; gap_hours counts the (link, hour) pairs the plan's gaps name, as "
             "plan.json's gaps do",
             "new channels are authorised at every hour",
-            "each station's antennas: today the gain table of its nearest assigned channel is used at every "
-            "candidate; solving the antennas across the band replaces this",
+            "each station's antennas at each candidate: from its antennas solved across the band (feed-point "
+            "impedance and pattern interpolated between the solved frequencies, matching and feedline losses at "
+            "the candidate itself)",
             "fractions of good days are compared in thousandths for the tie-break",
         ],
         "local_time_labels": list(labels),

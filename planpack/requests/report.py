@@ -2,16 +2,24 @@
 
 from __future__ import annotations
 
+import math
+
+from planpack.briefing import pct as whole_pct
 from planpack.scheduling.hours import format_hours
 
 
 def pct(x: float | None, near: float | None = None) -> str:
-    """A fraction of days as a percentage; one decimal where whole numbers would hide a difference from ``near``."""
+    """A fraction of days as a percentage, rounded down as every page and card rounds it (``briefing.pct``).
+
+    One decimal (also rounded down) where a fraction below ``near`` would read as the same whole percent,
+    so that a figure short of the target never prints as if it met it.
+    """
     if x is None:
         return "-"
-    if near is not None and round(100 * x) == round(100 * near) and abs(x - near) >= 0.0005:
-        return f"{100 * x:.1f} %"
-    return f"{100 * x:.0f} %"
+    whole = whole_pct(x)
+    if near is not None and whole == whole_pct(near) and x < near - 0.0005:
+        return f"{math.floor(round(x, 4) * 1000 + 1e-6) / 10:.1f} %"
+    return f"{whole} %"
 
 
 def khz(x: float) -> str:

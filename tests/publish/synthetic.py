@@ -360,3 +360,48 @@ antennas:
     length_m: 3
     height_m: 1
 """
+
+
+def synthetic_request(data: dict, text: str = INJECTION) -> dict:
+    """``data`` with a frequency request in the contract's shape (planpack.requests.contract), invented:
+    one proposal closing the ops--lake gap at 02-04 UTC, one merge, and one hour nothing serves. ``text``
+    goes into every free-text field, so pages show how it is escaped."""
+    labels = [_local(h) for h in range(24)]
+    d = copy.deepcopy(data)
+    d["requests"] = {
+        "planpack_request": 1,
+        "net": {"id": d["net"]["id"], "title": d["net"]["title"], "handling": d["net"]["handling"],
+                "timezone": d["net"]["timezone"], "utc_offset": "+01:00"},
+        "revision": dict(d["revision"]), "target_good_days": 0.9, "target_good_days_pct": 90,
+        "mode": {"id": "usb", "snr_db": 10.0, "bandwidth_hz": 2700.0},
+        "scenarios": [{"month": "2027-03", "ssn": 40.0}, {"month": "2027-03", "ssn": 90.0}],
+        "candidates": {"bands_khz": [[1600.0, 30000.0]], "exclude_khz": [[2600.0, 2625.0]], "step_khz": 25.0,
+                       "count": 1111, "distress_guard_khz": 10.0, "assigned_spacing_khz": 3.0,
+                       "builtin_exclusions": [{"khz": [2172.0, 2192.0], "why": "radiotelephony distress and calling",
+                                               "source": "RR 5.108-5.111, App. 15"}]},
+        "channels": [{"id": c["id"], "khz": c["freq_khz"]} for c in d["channels"]],
+        "proposals": [{"id": "R1", "khz": 2675.0, "window_khz": [2650.0, 2725.0],
+                       "serves": [{"link": "ops--lake", "utc_hours": [2, 3], "local_hours": [labels[2], labels[3]]}],
+                       "pairs": 2, "worst_good_days": 0.912, "worst_good_days_pct": 91,
+                       "net_channel_utc_hours": [2, 3]},
+                      {"id": "R2", "khz": 3125.0, "window_khz": [3125.0, 3125.0],
+                       "serves": [{"link": "ops--ridge", "utc_hours": [5], "local_hours": [labels[5]]},
+                                  {"link": "ops--lake", "utc_hours": [5], "local_hours": [labels[5]]}],
+                       "pairs": 2, "worst_good_days": 0.934, "worst_good_days_pct": 93, "net_channel_utc_hours": []}],
+        "merges": [{"proposals": ["R1", "R2"], "khz": 2900.0, "window_khz": [2875.0, 2925.0],
+                    "worst_good_days": 0.857, "worst_good_days_pct": 85, "message": f"R1 and R2 could be one {text}"}],
+        "before": {"gap_hours": 3, "unserved_pairs": 3, "utc_hours": [2, 3, 4]},
+        "after": {"gap_hours": 1, "unserved_pairs": 1, "left_out_pairs": 0, "utc_hours": [4]},
+        "unservable": [{"link": "ops--lake", "utc_hours": [4], "local_hours": [labels[4]], "reason": "short_of_target",
+                        "message": f"at best 88.6 % of days {text}", "best_good_days": 0.886,
+                        "best_good_days_pct": 88}],
+        "left_out": [],
+        "solver": {"name": "HiGHS", "interface": "scipy.optimize.milp", "scipy": "1", "status": "optimal",
+                   "optimal": True, "frequencies": 2, "mode": "fewest", "max_new": None, "time_limit_s": 60.0,
+                   "objective": "fewest frequencies", "stages": [{"name": "fewest", "status": "optimal",
+                                                                  "optimal": True}]},
+        "summary": f"Ask for 2 new frequencies {text}",
+        "assumptions": [f"invented for rendering tests {text}"],
+        "local_time_labels": labels,
+    }
+    return d

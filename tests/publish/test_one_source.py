@@ -250,3 +250,36 @@ def test_clock_change_named_on_member_cards_and_schedule(built):
         text = _flat(" ".join(page_texts(pdfs[f"{s['id']}.pdf"])))
         day = int(change[-2:])
         assert re.search(rf"\b{day}\b", text) and ("Mar" in text or change in text), s["id"]
+
+
+def test_requests_page_and_sheet_exactly_when_plan_json_has_a_request_and_they_agree_with_it(built):
+    """The demo with gaps (southern-alps-sar) and the invented gappy net get a Requests page whose every figure is
+    plan.json's ``requests`` (requestcheck), and a one-page sheet with the same frequencies, windows and percents;
+    the demo without gaps (danube-relief) gets neither, and no link to one."""
+    from requestcheck import check_requests_page, window
+
+    from planpack.publish.requestsheet import render_request_sheet
+    from planpack.requests import report
+
+    has = {}
+    for d, files, _ in built:
+        net = d["net"]["id"]
+        r = d["requests"]
+        has[net] = r is not None
+        assert (f"{net}/requests.html" in files) == has[net], net
+        assert (b'href="requests.html"' in files[f"{net}/index.html"]) == has[net], net
+        assert bool(d["gaps"]) == has[net], net  # compile asks whenever there are gaps
+        if r is None:
+            continue
+        check_requests_page(files[f"{net}/requests.html"], d)
+        assert r["revision"]["label"] == d["revision"]["label"] and r["net"]["handling"] == d["net"]["handling"]
+        assert r["before"]["gap_hours"] == sum(len(ln["gap_utc_hours"]) for ln in d["links"])  # gaps as plan.json
+        sheet = _flat(" ".join(page_texts(render_request_sheet(r))))
+        assert len(page_texts(render_request_sheet(r))) == 1
+        assert d["revision"]["label"] in sheet
+        if d["net"]["handling"]:
+            assert sheet.count(_flat(d["net"]["handling"])) == 2, net
+        for p in r["proposals"]:
+            assert report.khz(p["khz"]) in sheet and window(p["window_khz"]).replace("–", "-") in sheet, p
+            assert f"{p['worst_good_days_pct']} %" in sheet, p  # the site's whole percent, rounded down alike
+    assert has["southern-alps-sar"] and not has["danube-relief"] and has["moor-gaps"]

@@ -181,3 +181,72 @@ def test_cards_command_reuses_by_size(plans, tmp_path, counted):
     assert cli.main(["cards", plan, "--out", str(out), "-q", "--size", "a6"]) == 0
     assert counted["cards"] == ["tiny-net", "tiny-net"]
     assert os.path.isfile(out / "all-cards.pdf")
+
+
+# TINY with only channels too high for its 30 km link: gaps, so plan.json carries a frequency request
+GAPPY = variant(("  - {id: T1, khz: 3260, mode: usb}\n  - {id: T2, khz: 4545, mode: usb}\n"
+                 "  - {id: T3, khz: 5410, mode: usb}\n",
+                 "  - {id: T1, khz: 6950, mode: usb}\n  - {id: T2, khz: 7850, mode: usb}\n"
+                 "  - {id: T3, khz: 9050, mode: usb}\n"),
+                ("id: tiny-net", "id: gappy-net"), ("  target_good_days: 0.7\n",
+                                                     "  target_good_days: 0.7\n  handling: EXERCISE ONLY\n"))
+
+
+@pytest.fixture
+def gappy_plans(tmp_path, shared_cache):
+    folder = tmp_path / "gappy-plans"
+    folder.mkdir()
+    write(folder, "a.yaml", TINY)
+    write(folder, "g.yaml", GAPPY)
+    return folder
+
+
+@pytest.fixture
+def sheets(monkeypatch):
+    """Count the request sheets rendered (per net) while they are rendered for real."""
+    from planpack.publish import requestsheet
+
+    calls = []
+    real = requestsheet.render_request_sheet
+
+    def render(d, *a, **k):
+        calls.append(d["net"]["id"])
+        return real(d, *a, **k)
+
+    monkeypatch.setattr(requestsheet, "render_request_sheet", render)
+    return calls
+
+
+def test_the_request_sheet_is_one_more_unit_reused_when_nothing_changed(gappy_plans, tmp_path, counted, sheets):
+    import io
+
+    import pdfplumber
+
+    out = tmp_path / "site"
+    assert build(gappy_plans, out) == 0
+    assert sheets == ["gappy-net"] and sorted(counted["cards"]) == ["gappy-net", "tiny-net"] and counted["site"] == 1
+    first = tree(out)
+    assert {"gappy-net/request.pdf", "gappy-net/requests.html"} <= set(first)
+    assert "tiny-net/request.pdf" not in first and "tiny-net/requests.html" not in first
+    with pdfplumber.open(io.BytesIO(first["gappy-net/request.pdf"])) as pdf:
+        assert len(pdf.pages) == 1
+        text = pdf.pages[0].extract_text()
+    assert text.count("EXERCISE ONLY") == 2 and "Frequency request" in text
+    inode = out.stat().st_ino
+    # nothing changed: nothing rendered, nothing written
+    assert build(gappy_plans, out) == 0
+    assert sheets == ["gappy-net"] and len(counted["cards"]) == 2 and counted["site"] == 1
+    assert tree(out) == first and out.stat().st_ino == inode
+    # a tampered sheet is rendered again, not carried on
+    (out / "gappy-net" / "request.pdf").write_bytes(b"%PDF-planted")
+    assert build(gappy_plans, out) == 0
+    assert sheets == ["gappy-net", "gappy-net"] and len(counted["cards"]) == 2
+    assert tree(out) == first
+    # the other net changed: its cards and the site again, the sheet kept
+    write(gappy_plans, "a.yaml", TINY.replace("title: Invented hill group test net", "title: Renamed test net"))
+    assert build(gappy_plans, out) == 0
+    assert sheets == ["gappy-net", "gappy-net"] and counted["cards"][2:] == ["tiny-net"] and counted["site"] == 2
+    # reuse gives the bytes a fresh build gives
+    fresh = tmp_path / "fresh"
+    assert build(gappy_plans, fresh, "--no-cache") == 0
+    assert tree(fresh) == tree(out)
