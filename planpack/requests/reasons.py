@@ -37,6 +37,9 @@ SHORT_OF_TARGET = "short_of_target"
 #: The bottom of the band a request may cover by default [MHz].
 BAND_BOTTOM_MHZ = candidates.DEFAULT_BANDS_KHZ[0][0] / 1000.0
 
+#: A pair whose best candidate works on fewer days than this has, for a planner, no working frequency [0-1].
+MEANINGFUL_GOOD_DAYS = 0.05
+
 ORDER = (NOT_AUTHORISED, LUF_ABOVE_MUF, ABOVE_MUF, OUTSIDE_BANDS, SHORT_OF_TARGET)
 
 
@@ -60,7 +63,10 @@ def classify(links_hours: np.ndarray, good_days: np.ndarray, allowed: np.ndarray
         muf, luf = float(muf_mhz[l, h]), float(luf_mhz[l, h])
         if ((good_days[l, h] >= target) & ~allowed[h]).any():
             out.append(NOT_AUTHORISED)
-        elif not np.isfinite(luf) or luf >= muf:
+        elif not np.isfinite(luf):
+            # the LUF is a 90 % figure: without one, a candidate may still work on many days, short of the target
+            out.append(SHORT_OF_TARGET if b >= MEANINGFUL_GOOD_DAYS else LUF_ABOVE_MUF)
+        elif luf >= muf:
             out.append(LUF_ABOVE_MUF)
         elif not ((f_mhz >= luf) & (f_mhz <= muf)).any():
             # below the bottom of the band nothing helps; above it, the bands or exclusions are in the way

@@ -80,6 +80,8 @@ def test_reason_codes_follow_the_predictions():
     assert reasons.classify(pairs, good, allowed, muf, luf2, freqs, [0.0], 0.9) == [reasons.LUF_ABOVE_MUF]
     luf2[0, 1] = np.nan
     assert reasons.classify(pairs, good, allowed, muf, luf2, freqs, [0.0], 0.9) == [reasons.LUF_ABOVE_MUF]
+    # no 90 % LUF, but the best candidate works on 73 % of days against a 75 % target: short of it, not LUF > MUF
+    assert reasons.classify(pairs, good, allowed, muf, luf2, freqs, [0.73], 0.75) == [reasons.SHORT_OF_TARGET]
     muf2, luf3 = muf.copy(), luf.copy()
     muf2[0, 1], luf3[0, 1] = 1.55, 1.5
     full = np.arange(1600.0, 10001.0, 25.0)
