@@ -280,7 +280,7 @@ def _merge_message(a: str, b: str, m, grid, target: float) -> str:
     if lo == hi:
         return (f"{a} and {b} could be one frequency at {f:g} kHz, serving all their pairs on {report.pct(m.worst)} "
                 f"of days instead of the {report.pct(target)} target.")
-    return (f"{a} and {b} could be one frequency: anywhere in {lo:g}-{hi:g} kHz serves all their pairs on at least "
+    return (f"{a} and {b} could be one frequency: anywhere in {lo:g}–{hi:g} kHz serves all their pairs on at least "
             f"{report.pct(target - windows.MERGE_SLACK)} of days (best {report.pct(m.worst)} at {f:g} kHz) instead of "
             f"the {report.pct(target)} target.")
 

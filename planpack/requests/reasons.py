@@ -85,7 +85,7 @@ def explain(code: str, *, muf: tuple[float, float], luf: tuple[float, float] | N
     best : the best fraction of good days any candidate gives [0-1], at best_khz [kHz].
     """
     def rng(a, b):
-        return f"{a:.1f}" if abs(a - b) < 0.05 else f"{a:.1f}-{b:.1f}"
+        return f"{a:.1f}" if abs(a - b) < 0.05 else f"{a:.1f}–{b:.1f}"
 
     if code == NOT_AUTHORISED:
         return (f"assigned channel {', '.join(channels)} would serve it but is not authorised at those hours: "

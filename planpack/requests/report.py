@@ -28,7 +28,7 @@ def khz(x: float) -> str:
 
 def window(w: list[float]) -> str:
     """'4025-4050 kHz', or '3400 kHz only' for a window of one candidate."""
-    return f"{khz(w[0])} only" if w[0] == w[1] else f"{w[0]:g}-{w[1]:g} kHz"
+    return f"{khz(w[0])} only" if w[0] == w[1] else f"{w[0]:g}–{w[1]:g} kHz"
 
 
 def _pretty(link: str) -> str:
