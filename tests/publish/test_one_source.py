@@ -280,6 +280,6 @@ def test_requests_page_and_sheet_exactly_when_plan_json_has_a_request_and_they_a
         if d["net"]["handling"]:
             assert sheet.count(_flat(d["net"]["handling"])) == 2, net
         for p in r["proposals"]:
-            assert report.khz(p["khz"]) in sheet and window(p["window_khz"]).replace("–", "-") in sheet, p
+            assert report.khz(p["khz"]) in sheet and window(p["window_khz"]) in sheet, p
             assert f"{p['worst_good_days_pct']} %" in sheet, p  # the site's whole percent, rounded down alike
     assert has["southern-alps-sar"] and not has["danube-relief"] and has["moor-gaps"]
