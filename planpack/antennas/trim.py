@@ -50,14 +50,19 @@ def trim_to_resonance(build: Callable[[float], Model], soil: str, freq_khz: floa
         Longest length the geometry allows [m] (an inverted-v's legs must not
         reach the ground); caps the bracket.
     """
-    count = 0
+    # Every length solved is kept: brentq asks again for the bracket's ends, and the
+    # root it returns is a length it has already solved.
+    solved: dict[float, complex] = {}
+
+    def impedance(length_m: float) -> complex:
+        if length_m not in solved:
+            z, _ = solve(build(length_m), soil, (freq_khz,), pattern=False,
+                         bonded_vertical=bonded_vertical)
+            solved[length_m] = complex(z[0])
+        return solved[length_m]
 
     def reactance(length_m: float) -> float:
-        nonlocal count
-        count += 1
-        z, _ = solve(build(length_m), soil, (freq_khz,), pattern=False,
-                     bonded_vertical=bonded_vertical)
-        return float(z[0].imag)
+        return impedance(length_m).imag
 
     cap = max_length_m if max_length_m is not None else float("inf")
     lo, hi = 0.85 * start_m, min(1.10 * start_m, cap)
@@ -72,10 +77,8 @@ def trim_to_resonance(build: Callable[[float], Model], soil: str, freq_khz: floa
         # Still short at the longest length the geometry allows: that length is the nearest
         # to resonance; otherwise keep the rule of thumb.
         best = hi if (x_hi < 0 and hi >= cap - 1e-9) else min(start_m, cap)
-        z, _ = solve(build(best), soil, (freq_khz,), pattern=False,
-                     bonded_vertical=bonded_vertical)
-        return Trim(float(best), False, complex(z[0]), count + 1)
+        z = impedance(best)
+        return Trim(float(best), False, z, len(solved))
     length = brentq(reactance, lo, hi, xtol=TOLERANCE_M)
-    z, _ = solve(build(length), soil, (freq_khz,), pattern=False,
-                 bonded_vertical=bonded_vertical)
-    return Trim(float(length), True, complex(z[0]), count + 1)
+    z = impedance(length)
+    return Trim(float(length), True, z, len(solved))
