@@ -17,7 +17,7 @@ import numpy as np
 
 from planpack import __version__, briefing, localtime, safety, schedule
 from planpack.antennas import LOSS_WARN_DB
-from planpack.ionosphere import atmospheric, noise
+from planpack.ionosphere import atmospheric, geomagnetic, noise
 from planpack.plan.diagnostics import Collector, Diagnostic
 from planpack.plan.models import Plan
 from planpack.predictions import LinkPredictions, predict_links
@@ -147,6 +147,7 @@ def compile_plan(plan: Plan, *, cells: bool = True) -> CompiledPlan:
     data["requests"] = plan_requests(plan, setup, pred) if cells and data["gaps"] else None
     _antenna_warnings(plan, setup, pred, out)
     _noise_warnings(plan, labels, out, _scheduled(data))
+    _high_latitude_warning(plan, out)
     briefing.add_briefing(data, plan, setup, pred, gaps, out)
     data["diagnostics"] = [d.to_dict() for d in out.sorted()]
     return CompiledPlan(data, out.sorted(), pred)
@@ -280,14 +281,14 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
                  f"{'is' if len(chans) == 1 else 'are'} not authorised then.")
     elif win is not None and inside and reaches:
         extra = (f"; {_and([c.id for c in inside])} lie{'s' if len(inside) == 1 else ''} in the window "
-                 f"{win[0]:.2f}-{win[1]:.2f} MHz where a channel would serve, but fall{'s' if len(inside) == 1 else ''} "
+                 f"{win[0]:.2f}–{win[1]:.2f} MHz where a channel would serve, but fall{'s' if len(inside) == 1 else ''} "
                  f"short of the target there on too many days: more power, a better-matched antenna or a quieter "
                  f"receiving site would help more than another channel.")
     elif win is not None and inside:
         got = d.get("window_good_days") or 0.0
         extra = (f"; no frequency reaches the target of {target_pct} of days for all of them, and "
                  f"{_and([c.id for c in inside])} already lie{'s' if len(inside) == 1 else ''} where the band does best "
-                 f"for all of them together ({win[0]:.2f}-{win[1]:.2f} MHz, about {int(100 * got)} % of days at the "
+                 f"for all of them together ({win[0]:.2f}–{win[1]:.2f} MHz, about {int(100 * got)} % of days at the "
                  f"worst hour): more power, a better antenna or a quieter receiving site will help more than "
                  f"another channel.")
     elif win is not None and reaches:
@@ -416,6 +417,34 @@ def _noise_warnings(plan: Plan, labels: list[str], out: Collector, used: list[se
                     f"include it (a coarse ITU-R P.372 model, about 6 dB either way): expect weaker contacts "
                     f"there and prefer the highest channel that still carries.",
                     _At(*plan.where(f"stations.{sid}.noise")))
+
+
+def _high_latitude_warning(plan: Plan, out: Collector) -> None:
+    """Warn once when stations lie in the auroral zone or the polar cap, whose absorption events
+    the monthly-median predictions leave out."""
+    linked = {sid for link in plan.links for sid in link}
+    found = []
+    for s in plan.stations:
+        if s.id not in linked:
+            continue
+        m = geomagnetic.dipole_latitude_deg(s.at.lat_deg, s.at.lon_deg)
+        z = geomagnetic.zone(m)
+        if z is not None:
+            found.append((s, m, z))
+    if not found:
+        return
+    names = _and([f"{s.id} ({abs(m):.0f}\N{DEGREE SIGN})" for s, m, _ in found])
+    zones = sorted({z for _, _, z in found}, reverse=True)
+    where = " and ".join(f"the {z}" for z in zones)
+    pcap = ("; polar-cap absorption, after a solar proton event, can close all of HF across the cap for days"
+            if "polar cap" in zones else "")
+    key = f"stations.{found[0][0].id}.at"
+    out.warning("high-latitude", key,
+                f"{key}: {names} lie at geomagnetic latitudes (centred dipole) in {where}. The predictions are "
+                f"monthly medians and leave out auroral absorption, which on disturbed nights and mornings can "
+                f"close the lower channels for hours{pcap}. Expect the good-days figures to be optimistic; keep "
+                f"the highest channel that carries, a fixed schedule and another means of communication ready.",
+                _At(*plan.where(key)))
 
 
 _NOISE_KEY = {"city": "city", "residential": "residential", "rural": "rural", "quiet-rural": "quiet_rural"}

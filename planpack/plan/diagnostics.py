@@ -80,6 +80,7 @@ CODES: dict[str, str] = {
     "nvis-whip": "a whip used alone on an NVIS net",
     "wasted-channel": "a channel that serves no link at any hour",
     "atmospheric-noise": "lightning noise probably rules a receiving site at some hours",
+    "high-latitude": "stations in the auroral zone or the polar cap, whose absorption the predictions leave out",
     "exposure-clearance": "an RF exposure distance larger than the clearance the plan gives for a station",
     # publishing
     "cards-layout": "content the field cards cannot lay out at the card size (reported by build and cards)",

@@ -111,3 +111,19 @@ def test_dipole_with_a_feedpoint_coupler_loses_little_across_the_band():
         r = f / f0
         if 0.5 <= r <= 2.5 and not 1.8 <= r <= 2.2:
             assert loss <= 6.0, (f, loss)
+
+
+def test_auroral_zone_net_is_cautioned():
+    """Tromso, Alta and Narvik lie near 67 deg geomagnetic latitude, under the auroral oval (from
+    memory); the predictions leave auroral absorption out, so check must say so, once, naming them."""
+    diags = compile_plan(_plan("high_latitude_january.yaml")).diagnostics
+    (d,) = [d for d in diags if d.code == "high-latitude"]
+    assert "auroral zone" in d.message and "polar cap" not in d.message
+    assert all(name in d.message for name in ("hub (", "east (", "south ("))
+    assert d.key == "stations.hub.at" and d.line > 0
+
+
+def test_mid_latitude_and_tropical_nets_get_no_high_latitude_caution():
+    for name in ("highband_january.yaml", "tropics_august.yaml"):
+        diags = compile_plan(_plan(name), cells=False).diagnostics
+        assert not [d for d in diags if d.code == "high-latitude"], name

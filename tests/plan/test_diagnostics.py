@@ -127,7 +127,7 @@ def test_every_code_is_exercised():
     reading = {"file-unreadable", "file-too-large", "file-encoding", "nul-byte", "yaml-too-deep", "yaml-aliases",
                "yaml-too-many-nodes"}  # tested in test_reader_bounds.py
     analysis = {"channel-gap", "nvis-height", "nvis-whip", "wasted-channel",  # tested with compile
-                "atmospheric-noise",  # tests/acceptance/test_link_budget_trust.py
+                "atmospheric-noise", "high-latitude",  # tests/acceptance/test_link_budget_trust.py
                 "exposure-clearance",  # tests/test_briefing.py
                 "antenna-loss", "antenna-geometry", "antenna-ends-low", "antenna-solve-failed",
                 "antenna-unreliable"}  # tested in tests/antennas/test_station_setup.py
