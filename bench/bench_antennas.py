@@ -15,6 +15,11 @@ and on the shared 41-point band grid (1.5-30 MHz).  Targets:
   comparable anywhere but also carries this code's own savings (trimming
   now reuses its solves).
 
+The cold time is paid once: NEC's answers are kept on disk
+(planpack.antennas.solvecache), so every later check or build of a plan with
+the same antennas, soils and channels reads them back; the bench prints that
+time too.
+
 Each frequency over a real soil costs nec2++ about 17-25 ms of CPU for its
 Sommerfeld tables, whatever the antenna, so the 41 grid points roughly
 triple the NEC work of a plan with ten channels.  Cheaper grounds for the
@@ -87,6 +92,23 @@ def main() -> None:
     demo_plans()
 
 
+def _disk_warm_setup(plan, path) -> float:
+    """A fresh process's time: nothing in memory, every NEC solution on disk."""
+    from planpack.antennas.layout import _TRIM_CACHE
+    from planpack.plan.diagnostics import Collector
+    from planpack.stationsetup import solve_station_antennas
+
+    best = float("inf")
+    for _ in range(REPEATS):
+        with analysis._LOCK:
+            analysis._ANALYSIS_CACHE.clear()
+            _TRIM_CACHE.clear()
+        t0 = time.perf_counter()
+        solve_station_antennas(plan, Collector(str(path)))
+        best = min(best, time.perf_counter() - t0)
+    return best
+
+
 def _cold_setup(plan, path) -> float:
     from planpack.plan.diagnostics import Collector
     from planpack.stationsetup import solve_station_antennas
@@ -114,6 +136,7 @@ def demo_plans() -> None:
         plan = read_plan(str(path)).plan
         with_grid = _cold_setup(plan, path)
         solves = cache_info()["misses"]
+        warm = _disk_warm_setup(plan, path)
         lowest = (min(c.khz for c in plan.channels),)
         with mock.patch.object(analysis, "grid_khz", lambda: lowest):  # forked workers inherit it
             bare = _cold_setup(plan, path)
@@ -123,7 +146,8 @@ def demo_plans() -> None:
         total_before += before
         print(f"  {path.name:<32s} {len(plan.channels):2d} channels, {solves:2d} solves: "
               f"{with_grid:6.2f} s with the grid; {before:5.2f} s before the grid ({with_grid / before:.1f} x); "
-              f"{bare:5.2f} s for this code without it ({with_grid / bare:.1f} x)")
+              f"{bare:5.2f} s for this code without it ({with_grid / bare:.1f} x); "
+              f"{warm:5.2f} s with the NEC solutions on disk (every run after the first)")
     ratio = total_grid / total_before
     print(f"target: with the grid under twice the time before it: {'met' if ratio < 2.0 else 'NOT met'} "
           f"({total_grid:.2f} s against {total_before:.2f} s, {ratio:.1f} x; against this code without "

@@ -811,13 +811,15 @@ def cache_info() -> dict[str, int]:
 
 
 def clear_cache() -> None:
-    """Forget every cached analysis and trim."""
+    """Forget every cached analysis and trim, and the NEC solutions kept on disk: the next solve is cold."""
+    from . import solvecache
     from .layout import _TRIM_CACHE
 
     with _LOCK:
         _ANALYSIS_CACHE.clear()
         _TRIM_CACHE.clear()
         _STATS.update(hits=0, misses=0)
+    solvecache.clear()
 
 
 def station_exposure(analysis: AntennaAnalysis, power_w: float, duty_factor: float) -> dict:

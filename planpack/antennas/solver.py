@@ -2,7 +2,9 @@
 
 NEC does the electromagnetics; this module only turns a :class:`Model`, a
 ground and a frequency list into feed impedances and far-field gains.  One
-NEC context is built per call and solves every frequency in it.
+NEC context is built per call and solves every frequency in it; what NEC
+returns is kept on disk (:mod:`planpack.antennas.solvecache`), so the same
+model, ground and frequencies are never solved twice.
 
 PyNEC details that matter here: ``fr_card`` takes MHz (despite its argument
 name), and over ground the pattern is floored at -999.99 dB at and below the
@@ -15,6 +17,7 @@ import numpy as np
 from PyNEC import nec_context
 
 from .geometry import Model
+from . import solvecache
 from .ground import nec_ground_args, vertical_reflection
 
 COPPER_S_PER_M = 5.8e7
@@ -31,14 +34,11 @@ class AntennaSolveError(RuntimeError):
     """NEC could not solve a model (reported with the model and frequency)."""
 
 
-def _context(model: Model, soil: str, bonded_vertical: bool, lossless: bool) -> nec_context:
+def _context(model: Model, ground_type: int, eps_r: float, sigma: float, lossless: bool) -> nec_context:
     ctx = nec_context()
     geo = ctx.get_geometry()
     for w in model.wires:
         geo.wire(w.tag, w.segments, *w.start, *w.end, w.radius_m, 1.0, 1.0)
-    ground_type, eps_r, sigma = nec_ground_args(soil)
-    if bonded_vertical and ground_type == 2:
-        ground_type = 1  # currents over a perfect bond; the soil enters below
     # GE card: flag 1 when a wire touches the ground plane (the whip), else 0.
     touches = ground_type != -1 and model.lowest_z_m() <= 1e-9
     ctx.geometry_complete(1 if touches else 0)
@@ -49,6 +49,48 @@ def _context(model: Model, soil: str, bonded_vertical: bool, lossless: bool) -> 
     ctx.gn_card(ground_type, 0, eps_r, sigma, 0.0, 0.0, 0.0, 0.0)
     ctx.ex_card(0, model.feed[0], model.feed[1], 0, 1.0, 0.0, 0.0, 0.0, 0.0, 0.0)
     return ctx
+
+
+def describe(model: Model, ground_type: int, eps_r: float, sigma: float, lossless: bool,
+             freqs_khz: tuple[float, ...], pattern: bool) -> str:
+    """Everything NEC is given for a solve, as text (the disk cache's key; floats exactly, by repr)."""
+    wires = ";".join(f"{w.tag},{w.segments},{w.start!r},{w.end!r},{w.radius_m!r}" for w in model.wires)
+    return (f"wires {wires}\nfeed {model.feed!r}\nloads {model.loads!r}\n"
+            f"ground {ground_type},{eps_r!r},{sigma!r}\nlossless {lossless}\n"
+            f"freqs {tuple(float(f) for f in freqs_khz)!r}\npattern {pattern} {N_THETA} {N_PHI} {PHI_STEP_DEG!r}\n")
+
+
+def _nec(model: Model, ground_type: int, eps_r: float, sigma: float, lossless: bool,
+         freqs_khz: tuple[float, ...], pattern: bool) -> tuple[np.ndarray, np.ndarray | None]:
+    """Run NEC, or answer from the disk cache (:mod:`planpack.antennas.solvecache`)."""
+    entry = solvecache.key(describe(model, ground_type, eps_r, sigma, lossless, freqs_khz, pattern))
+    try:
+        hit = solvecache.load(entry, len(freqs_khz), (N_THETA, N_PHI) if pattern else None)
+    except Exception:  # a cache that cannot be read only costs time
+        hit = None
+    if hit is not None:
+        return hit
+    ctx = _context(model, ground_type, eps_r, sigma, lossless)
+    for f in freqs_khz:
+        ctx.fr_card(0, 1, f / 1000.0, 0.0)  # PyNEC's FR card takes MHz
+        if pattern:
+            # RP: normal mode, 91 x 7 points, total gain, from theta 0 phi 0.
+            ctx.rp_card(0, N_THETA, N_PHI, 0, 5, 0, 0, 0.0, 0.0, 1.0, PHI_STEP_DEG,
+                        0.0, 0.0)
+        else:
+            ctx.xq_card(0)
+    z = np.array([complex(ctx.get_impedance_real(i), ctx.get_impedance_imag(i))
+                  for i in range(len(freqs_khz))])
+    gains = None
+    if pattern:
+        gains = np.stack([np.asarray(ctx.get_radiation_pattern(i).get_gain(), float)
+                          for i in range(len(freqs_khz))])
+    if np.all(np.isfinite(z)) and (gains is None or np.all(np.isfinite(gains))):
+        try:
+            solvecache.store(entry, z, gains)
+        except Exception:  # nor one that cannot be written
+            pass
+    return z, gains
 
 
 def solve(model: Model, soil: str, freqs_khz: tuple[float, ...], pattern: bool = True,
@@ -91,23 +133,13 @@ def solve(model: Model, soil: str, freqs_khz: tuple[float, ...], pattern: bool =
         feed; NEC's -999.99 dB floor is left as it is.
     """
     try:
-        ctx = _context(model, soil, bonded_vertical, lossless)
-        for f in freqs_khz:
-            ctx.fr_card(0, 1, f / 1000.0, 0.0)  # PyNEC's FR card takes MHz
-            if pattern:
-                # RP: normal mode, 91 x 7 points, total gain, from theta 0 phi 0.
-                ctx.rp_card(0, N_THETA, N_PHI, 0, 5, 0, 0, 0.0, 0.0, 1.0, PHI_STEP_DEG,
-                            0.0, 0.0)
-            else:
-                ctx.xq_card(0)
-        z = np.array([complex(ctx.get_impedance_real(i), ctx.get_impedance_imag(i))
-                      for i in range(len(freqs_khz))])
-        gains = None
-        if pattern:
-            gains = np.stack([np.asarray(ctx.get_radiation_pattern(i).get_gain(), float)
-                              for i in range(len(freqs_khz))])
-            if bonded_vertical and nec_ground_args(soil)[0] == 2:
-                gains = _soil_weighted(gains, soil, freqs_khz)
+        ground_type, eps_r, sigma = nec_ground_args(soil)
+        real_soil = ground_type == 2
+        if bonded_vertical and real_soil:
+            ground_type = 1  # currents over a perfect bond; the soil enters below
+        z, gains = _nec(model, ground_type, eps_r, sigma, lossless, tuple(freqs_khz), pattern)
+        if gains is not None and bonded_vertical and real_soil:
+            gains = _soil_weighted(gains, soil, freqs_khz)
     except Exception as exc:  # PyNEC raises bare RuntimeErrors without context
         raise AntennaSolveError(
             f"NEC failed on a {len(model.wires)}-wire model over {soil} at "

@@ -263,7 +263,8 @@ def cached_compile(plan: Plan, cache_dir=None, enabled: bool = True):
     cache_dir : path, optional
         The cache folder (entries go in its ``compiled/``); default :func:`cache_root`.
     enabled : bool
-        False compiles without reading or writing the cache (``--no-cache``).
+        False compiles without reading or writing the cache (``--no-cache``), nor the disk cache of
+        NEC solutions (:mod:`planpack.antennas.solvecache`).
 
     Returns
     -------
@@ -272,9 +273,11 @@ def cached_compile(plan: Plan, cache_dir=None, enabled: bool = True):
         The revision is stamped afresh. A cache that cannot be used only costs time.
     """
     if not enabled:
+        from planpack.antennas import solvecache
         from planpack.compile import compile_plan
 
-        return compile_plan(plan)
+        with solvecache.disabled():  # --no-cache: afresh, the antennas too
+            return compile_plan(plan)
     root = Path(cache_dir) if cache_dir is not None else cache_root()
     folder = open_cache(KIND, root) if root is not None else None
     if folder is None:
