@@ -440,7 +440,8 @@ def _high_latitude_warning(plan: Plan, out: Collector) -> None:
             if "polar cap" in zones else "")
     key = f"stations.{found[0][0].id}.at"
     out.warning("high-latitude", key,
-                f"{key}: {names} lie at geomagnetic latitudes (centred dipole) in {where}. The predictions are "
+                f"{key}: {names} {'lies' if len(found) == 1 else 'lie'} at geomagnetic latitudes (centred dipole) "
+                f"in {where}. The predictions are "
                 f"monthly medians and leave out auroral absorption, which on disturbed nights and mornings can "
                 f"close the lower channels for hours{pcap}. Expect the good-days figures to be optimistic; keep "
                 f"the highest channel that carries, a fixed schedule and another means of communication ready.",

@@ -55,10 +55,6 @@ def disabled():
         _enabled = saved
 
 
-def enabled() -> bool:
-    return _enabled
-
-
 @functools.lru_cache(maxsize=1)
 def _environment() -> str:
     try:

@@ -16,8 +16,8 @@ from __future__ import annotations
 import numpy as np
 from PyNEC import nec_context
 
-from .geometry import Model
 from . import solvecache
+from .geometry import Model
 from .ground import nec_ground_args, vertical_reflection
 
 COPPER_S_PER_M = 5.8e7
