@@ -23,6 +23,7 @@ from planpack.plan.models import Plan
 from planpack.predictions import LinkPredictions, predict_links
 from planpack.requests.engine import plan_requests
 from planpack.revision import plan_revision
+from planpack.scheduling.windows import NO_WINDOW_SLIVER
 from planpack.stationsetup import StationAntennas, solve_station_antennas
 
 NVIS_RANGE_KM = 600.0  # links all shorter than this make an NVIS net (common practice, no source)
@@ -286,7 +287,7 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
                  f"receiving site would help more than another channel.")
     elif win is not None and inside:
         got = d.get("window_good_days") or 0.0
-        extra = (f"; no frequency reaches the target of {target_pct} of days for all of them, and "
+        extra = (f"; {_short_of(d, target_pct)}, and "
                  f"{_and([c.id for c in inside])} already lie{'s' if len(inside) == 1 else ''} where the band does best "
                  f"for all of them together ({win[0]:.2f}–{win[1]:.2f} MHz, about {int(100 * got)} % of days at the "
                  f"worst hour): more power, a better antenna or a quieter receiving site will help more than "
@@ -296,7 +297,7 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
                  f"{target_pct} of days.")
     elif win is not None:
         got = d.get("window_good_days") or 0.0
-        extra = (f"; no frequency reaches the target of {target_pct} of days for all of them: the best is a channel "
+        extra = (f"; {_short_of(d, target_pct)}: the best is a channel "
                  f"between {win[0]:.2f} and {win[1]:.2f} MHz, working on about {int(100 * got)} % of days, so ask for "
                  f"one there and add power, a better antenna or a quieter receiving site to reach the target.")
     else:
@@ -314,19 +315,29 @@ def _gap(d: dict, links, labels, ch_ids, out: Collector, plan: Plan) -> dict:
         "no_window_reason": d.get("no_window_reason"),
         "window_good_days": _r(d.get("window_good_days"), 3),
         "window_reaches_target": bool(d.get("window_reaches_target")),
-        "window_text": _window_text(win, reaches, d.get("window_good_days"), target_pct),
+        "window_text": _window_text(win, reaches, d.get("window_good_days"), target_pct,
+                                    d.get("no_window_reason") == NO_WINDOW_SLIVER),
         "message": message,
     }
 
 
-def _window_text(win, reaches: bool, good: float | None, target_pct: str) -> str:
+def _short_of(d: dict, target_pct: str) -> str:
+    """Why a gap's window is only the best the band offers."""
+    if d.get("no_window_reason") == NO_WINDOW_SLIVER:
+        return (f"only a sliver of the band under 100 kHz wide reaches the target of {target_pct} of days for "
+                f"all of them, too narrow to count on")
+    return f"no frequency reaches the target of {target_pct} of days for all of them"
+
+
+def _window_text(win, reaches: bool, good: float | None, target_pct: str, sliver: bool = False) -> str:
     """A gap's window as pages and cards print it."""
     if win is None:
         return "no single frequency closes it"
     span = f"{win[0]:.2f}–{win[1]:.2f} MHz"
     if reaches:
         return span
-    return f"none reaches {target_pct}; best {span} ({int(100 * (good or 0.0))} % of days)"
+    short = f"{target_pct} only in a sliver under 100 kHz" if sliver else f"none reaches {target_pct}"
+    return f"{short}; best {span} ({int(100 * (good or 0.0))} % of days)"
 
 
 #: The last sentence of every gap warning.

@@ -626,7 +626,7 @@ def test_results_are_valid_allowed_and_deterministic(data, n, c, penalty, target
 # --- windows on the band grid -------------------------------------------------------------
 
 from planpack.scheduling.windows import (MIN_WINDOW_MHZ, NO_WINDOW_HARDLY, NO_WINDOW_NONE_REACHES,  # noqa: E402
-                                         NO_WINDOW_TOO_NARROW, serving_window)
+                                         NO_WINDOW_SLIVER, NO_WINDOW_TOO_NARROW, serving_window)
 
 GRID = np.geomspace(1.5, 30.0, 41)
 
@@ -656,6 +656,19 @@ def test_no_window_says_why():
     narrow[k - 1] = narrow[k + 1] = 0.0
     w, why = serving_window(narrow[None], GRID, 0.8)
     assert w is None and why == NO_WINDOW_TOO_NARROW and MIN_WINDOW_MHZ == 0.1
+
+
+def test_a_target_met_only_in_a_sliver_offers_the_frequencies_that_come_closest():
+    # One grid point just reaches 80 %, its neighbours reach 75 %: a channel on the knife's edge
+    # is no window, but the band near it is the best there is (what 'planpack request' finds too).
+    k = int(np.argmin(np.abs(GRID - 3.2)))
+    good = np.zeros(GRID.size)
+    good[k], good[k - 1], good[k + 1] = 0.81, 0.75, 0.75
+    w, why = serving_window(good[None], GRID, 0.8)
+    assert why == NO_WINDOW_SLIVER and not w.reaches_target
+    assert w.low_mhz <= GRID[k - 1] and w.high_mhz >= GRID[k + 1] and w.weakest_good_days == 0.81
+    w, why = serving_window(good[None], GRID, 0.8, best_effort=False)
+    assert w is None and why == NO_WINDOW_TOO_NARROW
 
 
 def test_gaps_take_their_windows_from_the_grid():

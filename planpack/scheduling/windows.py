@@ -28,6 +28,7 @@ MIN_BEST_GOOD_DAYS = 0.10
 NO_WINDOW_NONE_REACHES = "no frequency on the band reaches the target on every one of them"
 NO_WINDOW_HARDLY = "no frequency on the band works on as many as 1 day in 10 for every one of them"
 NO_WINDOW_TOO_NARROW = "the frequencies that would serve them all span less than 100 kHz"
+NO_WINDOW_SLIVER = "only a sliver of the band, under 100 kHz wide, reaches the target on every one of them"
 NO_WINDOW_NOT_PREDICTED = "no band-wide prediction is available"
 
 
@@ -88,8 +89,9 @@ def _edges(f, weakest, i, j, level) -> tuple[float, float]:
 def serving_window(good_days, grid_mhz, target: float, best_effort: bool = True) -> tuple[Window | None, str | None]:
     """The widest run of grid frequencies on which every row reaches ``target``.
 
-    Where no frequency reaches it, and ``best_effort`` is set, the run
-    around the band's best frequency whose weakest row comes within
+    Where no frequency reaches it, or only a sliver under
+    :data:`MIN_WINDOW_MHZ` does, and ``best_effort`` is set, the run around
+    the band's best frequency whose weakest row comes within
     :data:`BEST_EFFORT_SPAN` of the best (``reaches_target`` False), with
     the reason why it falls short.
 
@@ -120,13 +122,7 @@ def serving_window(good_days, grid_mhz, target: float, best_effort: bool = True)
         top = float(weakest.max())
         if not best_effort or top < MIN_BEST_GOOD_DAYS:
             return None, (NO_WINDOW_NONE_REACHES if not best_effort else NO_WINDOW_HARDLY)
-        level = top - BEST_EFFORT_SPAN
-        k = int(np.argmax(weakest))
-        i, j = next((a, b) for a, b in _runs(weakest >= level) if a <= k <= b)
-        lo, hi = _edges(f, weakest, i, j, level)
-        if hi - lo < MIN_WINDOW_MHZ:
-            return None, NO_WINDOW_TOO_NARROW
-        return Window(lo, hi, float(f[k]), top, reaches_target=False), NO_WINDOW_NONE_REACHES
+        return _closest(f, weakest, NO_WINDOW_NONE_REACHES)
     best_run, best_width = None, -1.0
     for i, j in _runs(ok):
         lo, hi = _edges(f, weakest, i, j, target)
@@ -134,5 +130,19 @@ def serving_window(good_days, grid_mhz, target: float, best_effort: bool = True)
             k = i + int(np.argmax(weakest[i:j + 1]))
             best_run, best_width = Window(lo, hi, float(f[k]), float(weakest[k])), hi - lo
     if best_width < MIN_WINDOW_MHZ:
-        return None, NO_WINDOW_TOO_NARROW
+        # The target is met only at a point of the grid, where a channel would sit on a knife's edge:
+        # offer the frequencies that come closest, as where none reaches it.
+        return _closest(f, weakest, NO_WINDOW_SLIVER) if best_effort else (None, NO_WINDOW_TOO_NARROW)
     return best_run, None
+
+
+def _closest(f: np.ndarray, weakest: np.ndarray, reason: str) -> tuple[Window | None, str]:
+    """The best-effort window: the run around the best frequency within BEST_EFFORT_SPAN of it."""
+    top = float(weakest.max())
+    level = top - BEST_EFFORT_SPAN
+    k = int(np.argmax(weakest))
+    i, j = next((a, b) for a, b in _runs(weakest >= level) if a <= k <= b)
+    lo, hi = _edges(f, weakest, i, j, level)
+    if hi - lo < MIN_WINDOW_MHZ:
+        return None, NO_WINDOW_TOO_NARROW
+    return Window(lo, hi, float(f[k]), top, reaches_target=False), reason
