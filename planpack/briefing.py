@@ -31,7 +31,8 @@ import numpy as np
 from planpack import localtime
 from planpack.antennas import matching
 from planpack.antennas.cut import feet_inches, quarter_wave_rule_m
-from planpack.ionosphere import geodesy
+from planpack.antennas.pattern import GAIN_FLOOR_DBI
+from planpack.ionosphere import geodesy, groundwave
 from planpack.plan.diagnostics import Collector
 from planpack.plan.models import Plan, Station
 from planpack.scheduling.windows import serving_window
@@ -376,33 +377,57 @@ def antenna_gains_dbi(setup, station: Station) -> dict[str, np.ndarray]:
     return {a: np.asarray(setup.by_station[(station.id, a)].system_gain_table_dbi) for a in station.antennas}
 
 
+#: Stands for a path the ground wave carries, among the elevation angles of a station's paths.
+GROUND_WAVE = -1.0
+
+
 def antenna_by_channel(plan: Plan, setup, station: Station, elevations_deg: np.ndarray,
                        used: dict[str, list[float]] | None = None) -> list[dict]:
     """Which of the station's antennas to rig on each channel.
 
     elevations_deg : (k,) elevation angles of the station's paths [deg], over its links and hours;
     used : per channel id, the elevation angles [deg] at the hours the schedule uses it on the
-        station's links (these decide where they exist).
-    The antenna with the higher mean gain (in dB) over those angles wins; ties go to plan order.
+        station's links (these decide where they exist), or :data:`GROUND_WAVE` where the ground
+        wave carries the path on that channel.
+    The antenna with the higher mean gain (in dB) over those uses wins; ties go to plan order. For
+    a ground-wave use an antenna counts with the gain the link budget credits to the ground wave: a
+    whip's, and nothing (the pattern's floor) for a horizontal wire, whose ground wave dies out.
     """
     gains = antenna_gains_dbi(setup, station)
     ids = list(station.antennas)
+    kinds = {a.id: a.kind for a in plan.antennas}
     out = []
     for c, ch in enumerate(plan.channels):
         angles = np.asarray((used or {}).get(ch.id) or elevations_deg, float)
         angles = angles[np.isfinite(angles)]
         if angles.size == 0:
             angles = np.array([80.0])  # no sky path known: near-vertical (NVIS), a design choice
-        idx = np.clip(np.rint(angles).astype(int), 0, 90)
-        mean = {a: float(np.mean(gains[a][c, idx])) for a in ids}
+        ground = angles == GROUND_WAVE
+        idx = np.clip(np.rint(angles[~ground]).astype(int), 0, 90)
+
+        def ground_gain(a: str) -> float:
+            if kinds[a] != "whip":
+                return GAIN_FLOOR_DBI
+            return float(min(np.max(gains[a][c]), groundwave.SHORT_MONOPOLE_GAIN_DBI))
+
+        mean = {a: float(np.mean(np.concatenate([gains[a][c, idx], np.full(int(ground.sum()), ground_gain(a))])))
+                for a in ids}
         best = max(ids, key=lambda a: (round(mean[a], 6), -ids.index(a)))
-        lo, hi = int(idx.min()), int(idx.max())
-        span = f"{lo}°" if lo == hi else f"{lo}–{hi}°"
+        if idx.size:
+            lo, hi = int(idx.min()), int(idx.max())
+            span = f"at the paths' elevation ({lo}°)" if lo == hi else f"at the paths' elevation ({lo}–{hi}°)"
+            span += " and for the ground wave" if ground.any() else ""
+        else:
+            span = "for the ground wave"
         if len(ids) == 1:
             why = "the station's only antenna"
         else:
             runner = max((a for a in ids if a != best), key=lambda a: mean[a])
-            why = f"{mean[best] - mean[runner]:.1f} dB better than {runner} at the paths' elevation ({span})"
+            if ground.any() and kinds[best] == "whip" and kinds[runner] != "whip":
+                some = "the paths" if ground.all() else "some of the paths"
+                why = f"the ground wave carries {some} on this channel, and {runner}, a horizontal wire, hardly launches it"
+            else:
+                why = f"{mean[best] - mean[runner]:.1f} dB better than {runner} {span}"
         out.append({"channel": ch.id, "antenna": best, "gain_dbi": round(mean[best], 1),
                     "gains_dbi": {a: round(mean[a], 1) for a in ids}, "why": why})
     return out
@@ -503,18 +528,23 @@ def _station_brief(plan: Plan, setup, pred, data: dict, s: Station, labels, ch_i
     for h, r in enumerate(rows):
         hours.append({"utc_hour": h, "first": firsts[h], "second": seconds[h], **r})
     weak_runs = _weak_runs(rows, data["net"], labels, plan.net.fallback)
-    # antennas: elevation of the station's paths where the schedule uses each channel
+    # antennas: elevation of the station's paths where the schedule uses each channel, or the ground
+    # wave where it carries the path on that channel
     elev = pred.elevation_deg[li_idx] if li_idx else np.zeros((0, 24))
+
+    def angle(li: int, h: int, c: str) -> float:
+        return GROUND_WAVE if pred.via_name(li, h, ch_index[c]) == "ground" else float(pred.elevation_deg[li, h])
+
     used: dict[str, list[float]] = {}
     for h, hr in enumerate(nh):
         for c in (hr["first"], hr["second"]):
             if c:
-                used.setdefault(c, []).extend(float(e) for e in elev[:, h])
+                used.setdefault(c, []).extend(angle(li, h, c) for li in li_idx)
     for li in li_idx:
         for h, hr in enumerate(data["links"][li]["hours"]):
             for c in (hr["first"], hr["second"]):
                 if c:
-                    used.setdefault(c, []).append(float(pred.elevation_deg[li, h]))
+                    used.setdefault(c, []).append(angle(li, h, c))
     by_channel = antenna_by_channel(plan, setup, s, elev.ravel(), used)
     used_khz = [c.khz for c in plan.channels if c.id in used]
     st = next(x for x in data["stations"] if x["id"] == s.id)

@@ -82,6 +82,8 @@ def link_set(plan: Plan, setup, pairs: list[tuple[str, str]]) -> LinkSet:
     kinds = {a.id: a.kind for a in plan.antennas}
     gains = np.stack([setup.gain_table(s) for s in stations]).astype(np.float32)
     grid = np.stack([setup.grid_gain_table(s) for s in stations]).astype(np.float32)
+    ground = np.stack([setup.ground_gain(s) for s in stations]).astype(np.float32)
+    grid_ground = np.stack([setup.grid_ground_gain(s) for s in stations]).astype(np.float32)
     tx = [st[a] for a, _ in pairs]
     rx = [st[b] for _, b in pairs]
     soils = [_land_ground(t, r) for t, r in zip(tx, rx)]
@@ -96,6 +98,8 @@ def link_set(plan: Plan, setup, pairs: list[tuple[str, str]]) -> LinkSet:
         tx_station=np.array([row[t.id] for t in tx], dtype=np.intp),
         rx_station=np.array([row[r.id] for r in rx], dtype=np.intp),
         tx_grid_gain_dbi=grid, rx_grid_gain_dbi=grid,
+        tx_ground_gain_dbi=ground, rx_ground_gain_dbi=ground,
+        tx_grid_ground_gain_dbi=grid_ground, rx_grid_ground_gain_dbi=grid_ground,
         vertical=np.array([vertical[t.id] and vertical[r.id] for t, r in zip(tx, rx)], dtype=bool),
         ground_eps_r=np.array([g[0] for g in soils]), ground_sigma_s_m=np.array([g[1] for g in soils]),
         noise_c_db=np.array([k.c_db for k in cat]), noise_d=np.array([k.d for k in cat]),

@@ -30,6 +30,7 @@ import numpy as np
 from planpack.antennas import (AntennaAnalysis, AntennaDesign, AntennaGeometryError, AntennaInputError, GroundSpec,
                                analyse_antennas, station_exposure)
 from planpack.bandgrid import GRID_KHZ
+from planpack.ionosphere import groundwave
 from planpack.plan.diagnostics import Collector
 from planpack.plan.models import Antenna, Plan, Station
 
@@ -126,6 +127,33 @@ class StationAntennas:
         """
         return np.maximum.reduce([r.figures_at(freqs_khz).system_gain_table_dbi for _, r in self._results(station)])
 
+    def _ground_wave_rows(self, station: Station) -> list[tuple[str, AntennaAnalysis]]:
+        """The antennas a station would use for the ground wave: its whips, or all when it has none."""
+        rows = self._results(station)
+        whips = [(a, r) for a, r in rows if r.design.kind == "whip"]
+        return whips or rows
+
+    @staticmethod
+    def _ground_wave_gain(tables: list[np.ndarray]) -> np.ndarray:
+        # The ground wave leaves along the ground: credit the antenna's peak from the set's output,
+        # never more than a short monopole on perfect ground (as the link budget's default does).
+        return np.minimum(np.maximum.reduce([np.asarray(t).max(axis=-1) for t in tables]),
+                          groundwave.SHORT_MONOPOLE_GAIN_DBI)
+
+    def ground_gain(self, station: Station) -> np.ndarray:
+        """(c,) gain [dBi] credited to the ground wave on the plan's channels: from the station's whips,
+        which it rigs for the ground wave, or from all its antennas when it has no whip."""
+        return self._ground_wave_gain([r.system_gain_table_dbi for _, r in self._ground_wave_rows(station)])
+
+    def grid_ground_gain(self, station: Station) -> np.ndarray:
+        """(g,) as :meth:`ground_gain`, on ``GRID_KHZ``."""
+        return self._ground_wave_gain([r.grid_system_gain_table_dbi for _, r in self._ground_wave_rows(station)])
+
+    def ground_gain_at(self, station: Station, freqs_khz) -> np.ndarray:
+        """(k,) as :meth:`ground_gain`, at frequencies [kHz] in 1500-30000 (see :meth:`gain_table_at`)."""
+        return self._ground_wave_gain([r.figures_at(freqs_khz).system_gain_table_dbi
+                                       for _, r in self._ground_wave_rows(station)])
+
     def best_antenna(self, station: Station, elevation_deg: tuple[float, float] = COMPARE_ELEVATION_DEG
                      ) -> list[AntennaPick]:
         """Per plan channel, the antenna the station should rig and its margin over the next one.
@@ -143,8 +171,8 @@ class StationAntennas:
         return picks
 
     def vertical(self, station: Station, kinds: dict[str, str]) -> bool:
-        """True when the station's antennas are all whips (vertical polarisation for the ground wave)."""
-        return all(kinds[a] == "whip" for a in station.antennas)
+        """True when the station has a whip, which it rigs for the ground wave (vertical polarisation)."""
+        return any(kinds[a] == "whip" for a in station.antennas)
 
     def rigging(self, plan: Plan, channel_ids: list[str]) -> dict[str, list[dict]]:
         """Station id -> per channel {channel, antenna, margin_db}: which antenna to rig (JSON-ready)."""

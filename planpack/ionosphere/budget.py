@@ -1446,7 +1446,9 @@ def methods():
                  "then the plan's per-station noise margin on top",
         "atmospheric_noise": atmospheric.describe(),
         "ground_wave": groundwave.describe() + " Antennas credited at most 4.77 dBi (short monopole on perfect "
-                       "ground); a station on sea or fresh-water soil has its own shore counted as water.",
+                       "ground): a station's whips where it has any, which it rigs for the ground wave (vertical "
+                       "polarisation when both ends have one); a station on sea or fresh-water soil has its own "
+                       "shore counted as water.",
         "good_days": "P(MUF above f) from the MUF deciles x P(SNR >= required) from signal deciles "
                      f"+{SKY_SIGNAL_UPPER_DECILE_DB:g}/-{SKY_SIGNAL_LOWER_DECILE_DB:g} dB and P.372 noise deciles "
                      "(P.533 §10); ground wave: noise deciles only; the best mode counts",

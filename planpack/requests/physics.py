@@ -41,6 +41,16 @@ class _CandidateGains:
     def grid_gain_table(self, station) -> np.ndarray:
         return self._setup.grid_gain_table(station)
 
+    def ground_gain(self, station) -> np.ndarray:
+        """(k,) gain [dBi] credited to the ground wave, per candidate."""
+        key = f"ground:{station.id}"
+        if key not in self._cache:
+            self._cache[key] = np.asarray(self._setup.ground_gain_at(station, self._freqs), np.float32)
+        return self._cache[key]
+
+    def grid_ground_gain(self, station) -> np.ndarray:
+        return self._setup.grid_ground_gain(station)
+
     def vertical(self, station, kinds) -> bool:
         return self._setup.vertical(station, kinds)
 

@@ -127,3 +127,21 @@ def test_mid_latitude_and_tropical_nets_get_no_high_latitude_caution():
     for name in ("highband_january.yaml", "tropics_august.yaml"):
         diags = compile_plan(_plan(name), cells=False).diagnostics
         assert not [d for d in diags if d.code == "high-latitude"], name
+
+
+def test_a_station_with_a_whip_and_a_wire_keeps_its_ground_wave():
+    """Cebu port control has a dipole and a whip; the harbours 70-130 km away across the sea have whips.
+    The station rigs its whip for the ground wave, so by day the sea paths are carried by the ground
+    wave on 2-8 MHz (the English Channel check above: ITU-R P.368's sea curve, from memory), and the
+    brief tells Cebu to rig the whip on the channels the ground wave carries."""
+    data = compile_plan(_plan("island_mixed_antennas.yaml")).data
+    for link in data["links"]:
+        noon = next(h for h in link["hours"] if h["local_time"] == "12:00")
+        by_ground = [c for c in noon["channels"] if c["via"] == "ground"]
+        assert by_ground and max(c["good_days"] for c in by_ground) >= 0.5, link["id"]
+    cebu = next(s for s in data["stations"] if s["id"] == "cebu")
+    rig = {r["channel"]: r for r in cebu["brief"]["antenna_by_channel"]}
+    ground_channels = {c["channel"] for link in data["links"] for h in link["hours"]
+                       for c in h["channels"] if c["via"] == "ground" and c["channel"] in (h["first"], h["second"])}
+    assert ground_channels
+    assert any(rig[c]["antenna"] == "base-whip" and "ground wave" in rig[c]["why"] for c in ground_channels)
