@@ -208,8 +208,8 @@ def combine_noise_deciles(fa_db, upper_db, lower_db):
     References
     ----------
     ITU-R P.372 §8 (§8 of P.372-8 onwards), combination of noises from
-    several sources, after A. D. Spaulding and F. G. Stewart, "An updated
-    noise model for use in IONCAP", NTIA Report 87-212 (1987). The
+    several sources, after A. D. Spaulding and F. G. Stewart, NTIA Report
+    87-212 (1987), an updated HF noise model. The
     equations are recalled from memory; the step from the two halves to
     the median is this module's own and is checked by Monte Carlo.
     """
