@@ -249,10 +249,8 @@ class WarningRow:
     message: str
 
 
-@dataclass(frozen=True)
-class KeyValue:
-    key: str
-    value: str
+#: One key/value row, the same type as the Requests page's facts.
+KeyValue = requestpage.Fact
 
 
 @dataclass(frozen=True)

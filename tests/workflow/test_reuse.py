@@ -19,13 +19,17 @@ from planpack import cli
 OTHER = variant(("id: tiny-net", "id: other-net"), ("title: Invented hill group test net", "title: Other test net"))
 
 
+def _plan_folder(tmp_path, name: str, files: dict[str, str]):
+    folder = tmp_path / name
+    folder.mkdir()
+    for file, text in files.items():
+        write(folder, file, text)
+    return folder
+
+
 @pytest.fixture
 def plans(tmp_path, shared_cache):
-    folder = tmp_path / "plans"
-    folder.mkdir()
-    write(folder, "a.yaml", TINY)
-    write(folder, "b.yaml", OTHER)
-    return folder
+    return _plan_folder(tmp_path, "plans", {"a.yaml": TINY, "b.yaml": OTHER})
 
 
 @pytest.fixture
@@ -194,11 +198,7 @@ GAPPY = variant(("  - {id: T1, khz: 3260, mode: usb}\n  - {id: T2, khz: 4545, mo
 
 @pytest.fixture
 def gappy_plans(tmp_path, shared_cache):
-    folder = tmp_path / "gappy-plans"
-    folder.mkdir()
-    write(folder, "a.yaml", TINY)
-    write(folder, "g.yaml", GAPPY)
-    return folder
+    return _plan_folder(tmp_path, "gappy-plans", {"a.yaml": TINY, "g.yaml": GAPPY})
 
 
 @pytest.fixture
