@@ -39,7 +39,9 @@ from .geometry import Model, wavelength_m
 from .layout import Layout, builder, cut_sheet, layout
 from .losstext import LOSS_WARN_DB, explain_loss
 from .matching import LossChain, loss_chain, match_class, swr_json, swr_text
+from .bandsweep import sweep
 from .solver import AntennaSolveError, solve
+from .trust import physical_mask
 
 # Usual NVIS height window for horizontal wires [wavelengths] (common
 # practice, no source); for the optimum over real ground see Witvliet et al.,
@@ -449,45 +451,36 @@ def _chain(d: AntennaDesign, ratio: float, ground_ohm: float, z_ohm, freqs_khz) 
                       coil_q=d.matching_coil_q)
 
 
-#: A solved feed resistance this far below those of its neighbours is taken as NEC's failure, not physics.
-DIP_FACTOR = 0.25
+#: Around a parasitic wire's free-space resonance f_r, the band [f_r / 1.25, 1.05 f_r] where a soil's
+#: loading moves what the wire adds (measured here: a reflector 2 m up over medium-dry soil, whose
+#: gain straight up NEC's two grounds put up to 1 dB apart at 0.93 f_r).
+PARASITIC_BAND = (1.0 / 1.25, 1.05)
 
 
-def physical_mask(z_ohm: np.ndarray) -> np.ndarray:
-    """(n,) True where a feed impedance solved at ascending frequencies can be trusted.
-
-    NEC-2's Sommerfeld ground (as nec2++ implements it) fails for wires very
-    low in wavelengths: measured here, a horizontal wire 2 m up over
-    medium-dry ground at 2.4-3.4 MHz gets R of -65 to -127 ohm.  The
-    failure shows as R <= 0, and at its edges as a point whose R has
-    collapsed next to it: a point beside an untrusted one whose R is under
-    DIP_FACTOR times the median of the two trusted points beyond it, on the
-    side away from the failure, is not trusted either.
-    """
-    r = np.asarray(z_ohm).real
-    ok = np.isfinite(r) & (r > 0.0)
-    n = len(r)
-    changed = True
-    while changed:
-        changed = False
-        good = np.flatnonzero(ok)
-        for i in good:
-            for side in (-1, 1):
-                j = i + side
-                if not (0 <= j < n) or ok[j]:
-                    continue
-                beyond = good[good > i][:2] if side < 0 else good[good < i][-2:]
-                if len(beyond) and r[i] < DIP_FACTOR * np.median(r[beyond]):
-                    ok[i] = False
-                    changed = True
-                    break
-            if changed:
-                break
-    return ok
+def _parasitic_bands(d: AntennaDesign, ref_khz: float) -> tuple[tuple[float, float], ...]:
+    """Bands [kHz] to solve with Sommerfeld-Norton throughout (see :func:`planpack.antennas.bandsweep.sweep`)."""
+    if d.kind != "dipole-reflector":
+        return ()
+    f_r = ref_khz / (1.0 + d.reflector_longer)  # the reflector is this much longer than the resonant dipole
+    return ((PARASITIC_BAND[0] * f_r, PARASITIC_BAND[1] * f_r),)
 
 
 def _reference_freq_khz(d: AntennaDesign, freqs: tuple[float, ...]) -> float:
     return d.design_khz if d.design_khz is not None else min(freqs)
+
+
+def solved_model(design: AntennaDesign, ground: GroundSpec, freqs_khz: tuple[float, ...]) -> Model:
+    """The wire model NEC solves for a design over a ground on a channel set (trimmed, segmented
+    for the highest frequency solved)."""
+    lay = layout(design, ground)
+    build = builder(design, _segment_m(design, freqs_khz), lay.radius_m, lay.apex_deg, lay.spacing_m,
+                    lay.resistor_ohm, lay.reflector_height_m)
+    return build(lay.total_m)
+
+
+def _segment_m(design: AntennaDesign, freqs_khz: tuple[float, ...]) -> float:
+    ref = _reference_freq_khz(design, freqs_khz)
+    return geometry.segment_length_m(design.design_khz, max(max(freqs_khz), ref), band_top_khz=grid_khz()[-1])
 
 
 def _analyse_uncached(design: AntennaDesign, ground: GroundSpec,
@@ -496,13 +489,10 @@ def _analyse_uncached(design: AntennaDesign, ground: GroundSpec,
     lay: Layout = layout(d, ground)
     ref = _reference_freq_khz(d, freqs)
     band = grid_khz()
-    solve_set = tuple(sorted(set(freqs) | {ref} | set(band)))
-    seg = geometry.segment_length_m(d.design_khz, max(max(freqs), ref), band_top_khz=band[-1])
-    build = builder(d, seg, lay.radius_m, lay.apex_deg, lay.spacing_m, lay.resistor_ohm,
-                    lay.reflector_height_m)
-    model: Model = build(lay.total_m)
-    z_all, g_all = solve(model, ground.soil, solve_set, pattern=True,
-                         bonded_vertical=d.kind == "whip")
+    model = solved_model(d, ground, freqs)
+    swept = sweep(model, ground.soil, tuple(freqs) + (ref,), band, bonded_vertical=d.kind == "whip",
+                  dense_khz=_parasitic_bands(d, ref))
+    solve_set, z_all, g_all = swept.freqs_khz, swept.impedance_ohm, swept.gain_dbi
     trusted = physical_mask(z_all)
     z_use = np.where(trusted, z_all, np.nan + 0j)  # an untrusted solution makes the antenna unusable there
     idx = [solve_set.index(f) for f in freqs]
@@ -582,7 +572,7 @@ def _analyse_uncached(design: AntennaDesign, ground: GroundSpec,
 
     reflector = None
     if d.kind == "dipole-reflector":
-        bare = geometry.dipole(lay.total_m, d.height_m, lay.radius_m, seg)
+        bare = geometry.dipole(lay.total_m, d.height_m, lay.radius_m, _segment_m(d, freqs))
         _, g_bare = solve(bare, ground.soil, (ref,), pattern=True)
         bare_sum = pattern.summary(g_bare)
         with_r = float(summ["zenith_gain_dbi"][ridx])
@@ -617,7 +607,10 @@ def _analyse_uncached(design: AntennaDesign, ground: GroundSpec,
         "ground_model": {"free-space": "free space", "perfect": "perfect ground"}.get(
             ground.soil, "perfect-ground currents, far field weighted by the soil's reflection, "
             "plus the ground-system loss model"
-            if d.kind == "whip" else "Sommerfeld-Norton (NEC GN 2)"),
+            if d.kind == "whip" else (
+                f"Sommerfeld-Norton (NEC GN 2) at {int(swept.sommerfeld.sum())} of {len(solve_set)} "
+                "frequencies (every channel among them); between those, the reflection-coefficient "
+                "ground (GN 0) corrected by the difference Sommerfeld-Norton shows there")),
         "segments": model.segment_count,
         "wires": len(model.wires),
         "wire_loss": "copper, 5.8e7 S/m",
@@ -706,6 +699,21 @@ def _worker(job):
         return AntennaSolveError(f"the antenna solver failed ({type(exc).__name__}: {exc})")
 
 
+def _wire_estimate_m(d: AntennaDesign) -> float:
+    """Rough total wire of a design [m], before any solve: NEC's work grows with it."""
+    if d.kind == "whip":
+        return 0.0  # over a perfect ground: no Sommerfeld tables, a few segments
+    half_wave = 150_000.0 / d.design_khz if d.design_khz else 0.0
+    if d.kind == "folded-terminated":
+        return 2.0 * (d.length_m or 27.0)
+    return half_wave * (2.0 if d.kind == "dipole-reflector" else 1.0)
+
+
+def _largest_first(job) -> tuple[float, str]:
+    """Solve order: the biggest models first, so that worker processes finish together; ties by repr."""
+    return (-_wire_estimate_m(job[0]), repr(job))
+
+
 def _describe(job) -> str:
     d, g, _ = job
     what = f"{d.kind} cut for {d.design_khz:g} kHz" if d.design_khz is not None else d.kind
@@ -773,7 +781,7 @@ def analyse_antennas(jobs: Iterable[tuple[AntennaDesign, GroundSpec, Sequence[fl
             checked.append(exc)
     valid = [j for j in checked if not isinstance(j, Exception)]
     with _LOCK:
-        todo = sorted({j for j in valid if j not in _ANALYSIS_CACHE}, key=repr)
+        todo = sorted({j for j in valid if j not in _ANALYSIS_CACHE}, key=_largest_first)
     n = workers if workers is not None else (os.cpu_count() or 1)
     n = max(1, min(n, len(todo)))
     if todo and (n > 1 or isolate):

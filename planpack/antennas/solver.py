@@ -28,6 +28,13 @@ N_THETA = 91
 PHI_STEP_DEG = 15.0
 N_PHI = 7
 NEC_FLOOR_DB = -999.0
+# A coarse pattern (theta step 2 deg, phi step 30 deg: 46 x 4 points, a third of the work) for
+# the band sweep's reflection-coefficient solves, whose gains it corrects at Sommerfeld anchors
+# (planpack.antennas.bandsweep); expanded to the full grid by interpolating power linearly.
+COARSE_THETA_STEP_DEG = 2.0
+COARSE_N_THETA = 46
+COARSE_PHI_STEP_DEG = 30.0
+COARSE_N_PHI = 4
 
 
 class AntennaSolveError(RuntimeError):
@@ -51,21 +58,32 @@ def _context(model: Model, ground_type: int, eps_r: float, sigma: float, lossles
     return ctx
 
 
+def _pattern_grid(pattern: bool | str) -> tuple[int, int, float, float] | None:
+    """(n_theta, n_phi, theta step, phi step) of a pattern request, or None for none."""
+    if pattern == "coarse":
+        return COARSE_N_THETA, COARSE_N_PHI, COARSE_THETA_STEP_DEG, COARSE_PHI_STEP_DEG
+    return (N_THETA, N_PHI, 1.0, PHI_STEP_DEG) if pattern else None
+
+
 def describe(model: Model, ground_type: int, eps_r: float, sigma: float, lossless: bool,
-             freqs_khz: tuple[float, ...], pattern: bool) -> str:
+             freqs_khz: tuple[float, ...], pattern: bool | str) -> str:
     """Everything NEC is given for a solve, as text (the disk cache's key; floats exactly, by repr)."""
     wires = ";".join(f"{w.tag},{w.segments},{w.start!r},{w.end!r},{w.radius_m!r}" for w in model.wires)
     return (f"wires {wires}\nfeed {model.feed!r}\nloads {model.loads!r}\n"
             f"ground {ground_type},{eps_r!r},{sigma!r}\nlossless {lossless}\n"
-            f"freqs {tuple(float(f) for f in freqs_khz)!r}\npattern {pattern} {N_THETA} {N_PHI} {PHI_STEP_DEG!r}\n")
+            f"freqs {tuple(float(f) for f in freqs_khz)!r}\npattern {_pattern_grid(pattern)!r}\n")
 
 
 def _nec(model: Model, ground_type: int, eps_r: float, sigma: float, lossless: bool,
-         freqs_khz: tuple[float, ...], pattern: bool) -> tuple[np.ndarray, np.ndarray | None]:
-    """Run NEC, or answer from the disk cache (:mod:`planpack.antennas.solvecache`)."""
+         freqs_khz: tuple[float, ...], pattern: bool | str) -> tuple[np.ndarray, np.ndarray | None]:
+    """Run NEC, or answer from the disk cache (:mod:`planpack.antennas.solvecache`).
+
+    Gains come back as NEC gives them: (n, n_theta, n_phi) of the pattern grid asked for.
+    """
+    grid = _pattern_grid(pattern)
     entry = solvecache.key(describe(model, ground_type, eps_r, sigma, lossless, freqs_khz, pattern))
     try:
-        hit = solvecache.load(entry, len(freqs_khz), (N_THETA, N_PHI) if pattern else None)
+        hit = solvecache.load(entry, len(freqs_khz), grid[:2] if grid else None)
     except Exception:  # a cache that cannot be read only costs time
         hit = None
     if hit is not None:
@@ -73,17 +91,16 @@ def _nec(model: Model, ground_type: int, eps_r: float, sigma: float, lossless: b
     ctx = _context(model, ground_type, eps_r, sigma, lossless)
     for f in freqs_khz:
         ctx.fr_card(0, 1, f / 1000.0, 0.0)  # PyNEC's FR card takes MHz
-        if pattern:
-            # RP: normal mode, 91 x 7 points, total gain, from theta 0 phi 0.
-            ctx.rp_card(0, N_THETA, N_PHI, 0, 5, 0, 0, 0.0, 0.0, 1.0, PHI_STEP_DEG,
-                        0.0, 0.0)
+        if grid:
+            # RP: normal mode, n_theta x n_phi points, total gain, from theta 0 phi 0.
+            ctx.rp_card(0, grid[0], grid[1], 0, 5, 0, 0, 0.0, 0.0, grid[2], grid[3], 0.0, 0.0)
         else:
             ctx.xq_card(0)
     z = np.array([complex(ctx.get_impedance_real(i), ctx.get_impedance_imag(i))
                   for i in range(len(freqs_khz))])
     gains = None
-    if pattern:
-        gains = np.stack([np.asarray(ctx.get_radiation_pattern(i).get_gain(), float)
+    if grid:
+        gains = np.stack([np.asarray(ctx.get_radiation_pattern(i).get_gain(), float).reshape(grid[:2])
                           for i in range(len(freqs_khz))])
     if np.all(np.isfinite(z)) and (gains is None or np.all(np.isfinite(gains))):
         try:
@@ -93,8 +110,8 @@ def _nec(model: Model, ground_type: int, eps_r: float, sigma: float, lossless: b
     return z, gains
 
 
-def solve(model: Model, soil: str, freqs_khz: tuple[float, ...], pattern: bool = True,
-          bonded_vertical: bool = False, lossless: bool = False
+def solve(model: Model, soil: str, freqs_khz: tuple[float, ...], pattern: bool | str = True,
+          bonded_vertical: bool = False, lossless: bool = False, reflection_ground: bool = False
           ) -> tuple[np.ndarray, np.ndarray | None]:
     """Feed impedance and far-field gain of a model at each frequency.
 
@@ -106,8 +123,10 @@ def solve(model: Model, soil: str, freqs_khz: tuple[float, ...], pattern: bool =
         A P.527 soil name, 'perfect' or 'free-space'.
     freqs_khz : tuple of float
         Frequencies [kHz].
-    pattern : bool
-        Also compute the radiation pattern.
+    pattern : bool or "coarse"
+        Also compute the radiation pattern; "coarse" asks NEC for a third
+        of the points (:data:`COARSE_N_THETA` x :data:`COARSE_N_PHI`) and
+        expands them to the full grid (:func:`expand_coarse`).
     bonded_vertical : bool
         The model is a vertical bonded to the ground at its base (the whip).
         NEC-2 can model neither stakes nor radials in the soil, and its
@@ -122,6 +141,11 @@ def solve(model: Model, soil: str, freqs_khz: tuple[float, ...], pattern: bool =
         ground-system loss model.
     lossless : bool
         Perfectly conducting wires (for reference checks); otherwise copper.
+    reflection_ground : bool
+        Over a real soil, use NEC-2's reflection-coefficient ground (GN 0)
+        instead of Sommerfeld-Norton (GN 2): far cheaper, but blind to the
+        wires' near-field coupling to the soil (see
+        :mod:`planpack.antennas.bandsweep`, which corrects it).
 
     Returns
     -------
@@ -137,7 +161,11 @@ def solve(model: Model, soil: str, freqs_khz: tuple[float, ...], pattern: bool =
         real_soil = ground_type == 2
         if bonded_vertical and real_soil:
             ground_type = 1  # currents over a perfect bond; the soil enters below
+        elif reflection_ground and real_soil:
+            ground_type = 0
         z, gains = _nec(model, ground_type, eps_r, sigma, lossless, tuple(freqs_khz), pattern)
+        if gains is not None and pattern == "coarse":
+            gains = expand_coarse(gains)
         if gains is not None and bonded_vertical and real_soil:
             gains = _soil_weighted(gains, soil, freqs_khz)
     except Exception as exc:  # PyNEC raises bare RuntimeErrors without context
@@ -147,6 +175,29 @@ def solve(model: Model, soil: str, freqs_khz: tuple[float, ...], pattern: bool =
     if not np.all(np.isfinite(z)):
         raise AntennaSolveError(f"NEC returned a non-finite feed impedance over {soil}")
     return z, gains
+
+
+def expand_coarse(gains_db: np.ndarray) -> np.ndarray:
+    """Coarse-pattern gains (n, 46, 4) [dBi] on the full grid (n, 91, 7) [dBi].
+
+    Power (not dB) is interpolated linearly between neighbouring points, in
+    phi first and then in theta, so that a null or NEC's floor at the
+    horizon pulls its neighbours down no further than its share; a point
+    whose interpolated power is zero keeps NEC's floor.
+    """
+    g = np.asarray(gains_db, float)
+    lin = np.where(g <= NEC_FLOOR_DB, 0.0, 10.0 ** (g / 10.0))
+    phi_c = np.arange(COARSE_N_PHI) * COARSE_PHI_STEP_DEG
+    phi = np.arange(N_PHI) * PHI_STEP_DEG
+    w = np.interp(phi, phi_c, np.arange(COARSE_N_PHI, dtype=float))
+    lo = np.minimum(np.floor(w).astype(int), COARSE_N_PHI - 2)
+    lin = lin[..., lo] * (1.0 - (w - lo)) + lin[..., lo + 1] * (w - lo)
+    theta_c = np.arange(COARSE_N_THETA) * COARSE_THETA_STEP_DEG
+    w = np.interp(np.arange(N_THETA, dtype=float), theta_c, np.arange(COARSE_N_THETA, dtype=float))
+    lo = np.minimum(np.floor(w).astype(int), COARSE_N_THETA - 2)
+    f = (w - lo)[:, None]
+    lin = lin[..., lo, :] * (1.0 - f) + lin[..., lo + 1, :] * f
+    return np.where(lin > 0.0, 10.0 * np.log10(np.maximum(lin, 1e-300)), NEC_FLOOR_DB)
 
 
 def _soil_weighted(gains_db: np.ndarray, soil: str, freqs_khz) -> np.ndarray:
