@@ -3,7 +3,8 @@
 The flow for each (design, ground, frequency set): decide lengths (trim to
 resonance with NEC where the kind is cut for a frequency), build the wire
 model, solve every assigned channel and every point of the shared band grid
-(:mod:`planpack.bandgrid`) in one NEC context, then interpret: the losses
+(:mod:`planpack.bandgrid`; the band sweep of :mod:`planpack.antennas.bandsweep`
+keeps the Sommerfeld-Norton ground's cost down), then interpret: the losses
 from the set to the antenna through the plan's matching (see
 :mod:`planpack.antennas.matching`), the elevation pattern, the NVIS height
 window, and the warnings a planner needs.
@@ -34,12 +35,12 @@ from scipy.interpolate import PchipInterpolator
 from planpack.bandgrid import grid_khz
 
 from . import geometry, ground as gnd, matching, pattern
+from .bandsweep import sweep
 from .design import DIPOLE_KINDS, AntennaDesign, AntennaInputError, GroundSpec, check_freqs_khz
 from .geometry import Model, wavelength_m
 from .layout import Layout, builder, cut_sheet, layout
 from .losstext import LOSS_WARN_DB, explain_loss
 from .matching import LossChain, loss_chain, match_class, swr_json, swr_text
-from .bandsweep import sweep
 from .solver import AntennaSolveError, solve
 from .trust import physical_mask
 
@@ -614,7 +615,10 @@ def _analyse_uncached(design: AntennaDesign, ground: GroundSpec,
         "segments": model.segment_count,
         "wires": len(model.wires),
         "wire_loss": "copper, 5.8e7 S/m",
-        "pattern_grid": "elevation 0-90 deg step 1, azimuth 0-90 deg step 15 (symmetric)",
+        "pattern_grid": "elevation 0-90 deg step 1, azimuth 0-90 deg step 15 (symmetric)" + (
+            "" if d.kind == "whip" or ground.soil in ("perfect", "free-space") else
+            " on the channels; at the other frequencies NEC gives elevation step 2 and azimuth step 30, "
+            "and the power is interpolated onto that grid"),
         "frequencies_solved": len(solve_set),
         "band_grid": (f"{len(band)} log-spaced points {band[0]:g}-{band[-1]:g} kHz; between solved "
                       "frequencies R and X are interpolated in log f and losses computed at the exact frequency"),

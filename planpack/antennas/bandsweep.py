@@ -34,17 +34,18 @@ The channels get NEC's full pattern; the other frequencies a coarse one
 which is all the band grid's azimuth-averaged gain needs.
 
 Measured against Sommerfeld-Norton at every one of 241 log-spaced
-frequencies over 1.5-30 MHz, for the 21 antenna and soil pairs of the demo
-plans, away from the zones where NEC-2 itself fails (wire ends near the
-ground far below resonance): the gain less the losses from the set at 50,
-70 and 90 degrees elevation, read between solved frequencies as the link
-budget reads it, is within 0.12 dB at the 95th percentile and 0.20 dB at
-the 99th up to 12 MHz (0.80 dB at worst), where the same reading from
-Sommerfeld-Norton at every grid point gives 0.08, 0.21 and 0.79 dB; over
-12-30 MHz, where long wires' lobes split between grid points, 0.33, 1.05
-and 4.9 dB against 0.27, 0.78 and 3.9 dB.  It takes the demo plans' cold
-antenna time from 6.6-8.3 s to about 3.5 s each (``bench/bench_antennas.py``).
-``tests/antennas/test_bandsweep.py`` checks it on three antennas.
+frequencies over 1.5-30 MHz, for the 19 wire-antenna and soil pairs of the
+demo plans, away from the zones where NEC-2 itself fails (wire ends near
+the ground far below resonance), by ``bench/bandsweep_accuracy.py``: the
+gain less the losses from the set at 50, 70 and 90 degrees elevation, read
+between solved frequencies as the link budget reads it, is within 0.13 dB
+at the 95th percentile and 0.23 dB at the 99th up to 12 MHz (0.80 dB at
+worst), where the same reading from Sommerfeld-Norton at every grid point
+gives 0.09, 0.23 and 0.79 dB; up to 30 MHz, where long wires' lobes split
+between grid points, 0.44, 1.15 and 6.8 dB against 0.42, 1.09 and 6.8 dB.
+It takes the demo plans' cold antenna time from 6.6-8.3 s to about 3.5 s
+each (``bench/bench_antennas.py``).  ``tests/antennas/test_bandsweep.py``
+checks it on three antennas.
 """
 
 from __future__ import annotations
@@ -62,12 +63,12 @@ from .ground import nec_ground_args
 from .solver import NEC_FLOOR_DB, N_THETA, solve
 from .trust import physical_mask
 
-#: Most band-grid steps between two Sommerfeld-Norton anchors (3 steps of the 41-point grid are 25 %).
+#: Most band-grid steps between two Sommerfeld-Norton anchors (4 steps of the 41-point grid span 35 %).
 ANCHOR_STEPS = 4
 #: An interval is solved in full where the anchors' impedance difference moves by more than this
 #: fraction of the smaller anchor impedance ...
 JUMP_RELATIVE = 0.25
-#: ... or their gain difference moves by more than this at 45-90 degrees elevation [dB].
+#: ... or their azimuth-averaged gain difference moves by more than this at 45-90 degrees elevation [dB].
 JUMP_GAIN_DB = 1.0
 #: Elevations 45-90 degrees in an azimuth-averaged table (elevation 0..90, 1-degree steps).
 _STEEP_ELEVATIONS = slice(45, 91)
@@ -175,10 +176,10 @@ def sweep(model: Model, soil: str, exact_khz: Sequence[float], grid_khz: Sequenc
     at = {f: i for i, f in enumerate(freqs)}
     solved: dict[float, tuple[complex, np.ndarray]] = {}
 
-    def sommerfeld(fs, pattern) -> None:
+    def sommerfeld(fs, points) -> None:
         fs = tuple(sorted(fs))
         if fs:
-            z, g = solve(model, soil, fs, pattern=pattern)
+            z, g = solve(model, soil, fs, pattern=points)
             solved.update({f: (complex(z[k]), g[k]) for k, f in enumerate(fs)})
 
     # The exact frequencies get NEC's full pattern; grid anchors the coarse one, as the
@@ -200,19 +201,20 @@ def sweep(model: Model, soil: str, exact_khz: Sequence[float], grid_khz: Sequenc
     sommerfeld(refine, "coarse")
 
     keys = sorted(solved)
-    exact = np.array([f in solved for f in freqs])
+    is_solved = np.array([f in solved for f in freqs])
     z = np.array(z_rc, complex)
     g = np.array(g_rc, float)
     for f in keys:
         z[at[f]], g[at[f]] = solved[f]
-    if not exact.all():
+    between = ~is_solved
+    if between.any():
         lk = np.log(keys)
-        lf = np.log(np.asarray(freqs)[~exact])
+        lf = np.log(np.asarray(freqs)[between])
         dz = np.array([solved[f][0] for f in keys]) - z_rc[[at[f] for f in keys]]
-        z[~exact] += PchipInterpolator(lk, dz.real)(lf) + 1j * PchipInterpolator(lk, dz.imag)(lf)
+        z[between] += PchipInterpolator(lk, dz.real)(lf) + 1j * PchipInterpolator(lk, dz.imag)(lf)
         dg = np.stack([_finite_gain(solved[f][1]) - _finite_gain(g_rc[at[f]]) for f in keys])
         dg = np.nan_to_num(dg.reshape(len(keys), -1), nan=0.0)  # no correction where either is NEC's floor
         corr = np.stack([np.interp(lf, lk, col) for col in dg.T], axis=1).reshape(len(lf), N_THETA, -1)
-        rc = g[~exact]
-        g[~exact] = np.where(rc <= NEC_FLOOR_DB, rc, np.maximum(rc + corr, NEC_FLOOR_DB))
-    return Sweep(freqs, z, g, exact)
+        rc = g[between]
+        g[between] = np.where(rc <= NEC_FLOOR_DB, rc, np.maximum(rc + corr, NEC_FLOOR_DB))
+    return Sweep(freqs, z, g, is_solved)

@@ -10,11 +10,11 @@ Over a real soil each solve with NEC's Sommerfeld-Norton ground costs about
 25 ms, and one with its reflection-coefficient ground about a millisecond.
 The two grounds put resonance within a few per cent of each other in
 length, and the reactance's slope with length barely differs.  So the
-resonance is first found over the cheap ground, then a Newton step with
-that ground's slope carries it onto Sommerfeld-Norton; a step that leaves
-the reactance within 1 mm of zero ends it (usually after two solves),
-and anything else falls back to Brent's method over Sommerfeld-Norton,
-started from the bracket the steps found.
+resonance is first found over the cheap ground, then Newton steps with
+that ground's slope carry it onto Sommerfeld-Norton, until a step would
+move it by 1 mm or less (usually after one to three solves); anything else
+falls back to Brent's method over Sommerfeld-Norton, from the bracket the
+steps found or, failing one, the usual bracket.
 """
 
 from __future__ import annotations
