@@ -60,7 +60,7 @@ from scipy.interpolate import PchipInterpolator
 from . import pattern
 from .geometry import Model
 from .ground import nec_ground_args
-from .solver import NEC_FLOOR_DB, N_THETA, solve
+from .solver import NEC_FLOOR_DB, N_THETA, AntennaSolveError, solve
 from .trust import physical_mask
 
 #: Most band-grid steps between two Sommerfeld-Norton anchors (4 steps of the 41-point grid span 35 %).
@@ -172,7 +172,11 @@ def sweep(model: Model, soil: str, exact_khz: Sequence[float], grid_khz: Sequenc
         z, g = solve(model, soil, freqs, pattern=True, bonded_vertical=bonded_vertical)
         return Sweep(freqs, z, g, np.ones(len(freqs), bool))
 
-    z_rc, g_rc = solve(model, soil, freqs, pattern="coarse", reflection_ground=True)
+    try:
+        z_rc, g_rc = solve(model, soil, freqs, pattern="coarse", reflection_ground=True)
+    except AntennaSolveError:  # the cheap ground failed where Sommerfeld-Norton may not: use it throughout
+        z, g = solve(model, soil, freqs, pattern=True)
+        return Sweep(freqs, z, g, np.ones(len(freqs), bool))
     at = {f: i for i, f in enumerate(freqs)}
     solved: dict[float, tuple[complex, np.ndarray]] = {}
 
@@ -199,7 +203,18 @@ def sweep(model: Model, soil: str, exact_khz: Sequence[float], grid_khz: Sequenc
         if inside and (not (ok[i] and ok[i + 1]) or _jump(dz, zs, dt, i)):
             refine += inside
     sommerfeld(refine, "coarse")
+    z, g, is_solved = _corrected(freqs, z_rc, g_rc, solved)
+    # A corrected impedance that is not physical is no reading to trust: solve it instead.
+    sommerfeld([f for i, f in enumerate(freqs) if not is_solved[i] and not z[i].real > 0], "coarse")
+    z, g, is_solved = _corrected(freqs, z_rc, g_rc, solved)
+    return Sweep(freqs, z, g, is_solved)
 
+
+def _corrected(freqs: tuple[float, ...], z_rc: np.ndarray, g_rc: np.ndarray,
+               solved: dict[float, tuple[complex, np.ndarray]]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Sommerfeld-Norton where solved; elsewhere the reflection-coefficient solution plus the difference
+    at the solved frequencies, interpolated in log f (PCHIP for R and X, linear for gain in dB)."""
+    at = {f: i for i, f in enumerate(freqs)}
     keys = sorted(solved)
     is_solved = np.array([f in solved for f in freqs])
     z = np.array(z_rc, complex)
@@ -217,4 +232,4 @@ def sweep(model: Model, soil: str, exact_khz: Sequence[float], grid_khz: Sequenc
         corr = np.stack([np.interp(lf, lk, col) for col in dg.T], axis=1).reshape(len(lf), N_THETA, -1)
         rc = g[between]
         g[between] = np.where(rc <= NEC_FLOOR_DB, rc, np.maximum(rc + corr, NEC_FLOOR_DB))
-    return Sweep(freqs, z, g, is_solved)
+    return z, g, is_solved

@@ -143,3 +143,43 @@ def test_the_seeded_trim_finds_brents_length_in_fewer_solves(name):
     assert seeded.resonant and brent.resonant
     assert abs(seeded.length_m - brent.length_m) <= 2 * TOLERANCE_M
     assert seeded.solves <= 3 < brent.solves
+
+
+def _dipole_over_wet():
+    d, g = CASES["dipole"]
+    return analysis.solved_model(d, g, CHANNELS), g.soil
+
+
+def test_when_the_cheap_ground_fails_sommerfeld_norton_solves_every_frequency(monkeypatch):
+    model, soil = _dipole_over_wet()
+    real = bandsweep.solve
+
+    def failing(*args, reflection_ground=False, **kwargs):
+        if reflection_ground:
+            raise solver.AntennaSolveError("NEC failed")
+        return real(*args, **kwargs)
+
+    monkeypatch.setattr(bandsweep, "solve", failing)
+    s = bandsweep.sweep(model, soil, CHANNELS, GRID)
+    assert s.sommerfeld.all()
+    z, _ = real(model, soil, s.freqs_khz)
+    assert np.allclose(s.impedance_ohm, z)
+
+
+def test_a_corrected_impedance_that_is_not_physical_is_solved_instead(monkeypatch):
+    model, soil = _dipole_over_wet()
+    real = bandsweep.solve
+    broken = GRID[10]  # not an anchor: between channels and grid anchors
+
+    def cheap_goes_wrong(m, s, freqs, *args, reflection_ground=False, **kwargs):
+        z, g = real(m, s, freqs, *args, reflection_ground=reflection_ground, **kwargs)
+        if reflection_ground:
+            z = np.array(z)
+            z[list(freqs).index(broken)] = -500.0 + 0j
+        return z, g
+
+    monkeypatch.setattr(bandsweep, "solve", cheap_goes_wrong)
+    s = bandsweep.sweep(model, soil, CHANNELS, GRID)
+    i = s.freqs_khz.index(broken)
+    assert s.sommerfeld[i] and s.impedance_ohm[i].real > 0
+    assert np.isclose(s.impedance_ohm[i], real(model, soil, (broken,))[0][0])
