@@ -11,9 +11,9 @@ import math
 import numpy as np
 import pytest
 
-from planpack.antennas import analysis, bandsweep, pattern, solver
+from planpack.antennas import analysis, bandsweep, geometry, pattern, solver
 from planpack.antennas.design import AntennaDesign, GroundSpec
-from planpack.antennas.layout import layout
+from planpack.antennas.layout import builder, layout
 from planpack.antennas.trim import TOLERANCE_M, _bracketed, trim_to_resonance
 from planpack.antennas.trust import physical_mask
 from planpack.bandgrid import grid_khz
@@ -90,14 +90,14 @@ def test_the_sweep_keeps_the_zones_where_nec_fails(swept, name):
         assert not mine.all() and mine[0]
 
 
-def test_the_sweep_solves_sommerfeld_norton_at_under_half_the_frequencies(swept):
+def test_the_sweep_solves_sommerfeld_norton_at_under_half_the_frequencies():
     d, g = CASES["dipole"]
     s = bandsweep.sweep(analysis.solved_model(d, g, CHANNELS), g.soil, CHANNELS + (4600.0,), GRID)
     assert all(s.sommerfeld[s.freqs_khz.index(f)] for f in CHANNELS)
     assert s.sommerfeld.sum() < len(s.freqs_khz) / 2
 
 
-def test_a_reflector_is_solved_in_full_around_its_resonance(swept):
+def test_a_reflector_is_solved_in_full_around_its_resonance():
     d, g = CASES["dipole-reflector"]
     lo, hi = analysis._parasitic_bands(d, d.design_khz)[0]
     s = bandsweep.sweep(analysis.solved_model(d, g, CHANNELS), g.soil, CHANNELS + (d.design_khz,), GRID,
@@ -108,8 +108,6 @@ def test_a_reflector_is_solved_in_full_around_its_resonance(swept):
 
 @pytest.mark.parametrize("soil, bonded", [("perfect", False), ("free-space", False), ("medium-dry", True)])
 def test_grounds_without_sommerfeld_tables_are_solved_directly(soil, bonded):
-    from planpack.antennas import geometry
-
     model = geometry.dipole(30.0, 8.0, 0.001, 1.0) if not bonded else geometry.whip(3.0, 0.0, 0.005, 0.3)
     s = bandsweep.sweep(model, soil, (3000.0,), GRID[:5], bonded_vertical=bonded)
     assert s.sommerfeld.all()
@@ -134,7 +132,6 @@ def test_a_coarse_pattern_is_exact_at_its_own_points_and_interpolates_power_betw
 def test_the_seeded_trim_finds_brents_length_in_fewer_solves(name):
     d, g = CASES[name]
     lay = layout(d, g)
-    from planpack.antennas.layout import builder
     seg = analysis._segment_m(d, CHANNELS)
     build = builder(d, seg, lay.radius_m, lay.apex_deg, lay.spacing_m, lay.resistor_ohm, lay.reflector_height_m)
     rule = lay.trim.length_m
