@@ -191,9 +191,7 @@ def sweep(model: Model, soil: str, exact_khz: Sequence[float], grid_khz: Sequenc
     exact = {float(f) for f in exact_khz}
     sommerfeld(exact, True)
     sommerfeld(set(anchors(exact_khz, grid_khz)) - exact, "coarse")
-    keys = sorted(solved)
-    zs = np.array([solved[f][0] for f in keys])
-    dz = zs - z_rc[[at[f] for f in keys]]
+    keys, zs, dz = _impedance_difference(solved, z_rc, at)
     dt = (pattern.summary(np.stack([solved[f][1] for f in keys]))["table_dbi"]
           - pattern.summary(g_rc[[at[f] for f in keys]])["table_dbi"])
     ok = physical_mask(zs)
@@ -203,19 +201,27 @@ def sweep(model: Model, soil: str, exact_khz: Sequence[float], grid_khz: Sequenc
         if inside and (not (ok[i] and ok[i + 1]) or _jump(dz, zs, dt, i)):
             refine += inside
     sommerfeld(refine, "coarse")
-    z, g, is_solved = _corrected(freqs, z_rc, g_rc, solved)
+    z, g, is_solved = _corrected(freqs, z_rc, g_rc, solved, at)
     # A corrected impedance that is not physical is no reading to trust: solve it instead.
     sommerfeld([f for i, f in enumerate(freqs) if not is_solved[i] and not z[i].real > 0], "coarse")
-    z, g, is_solved = _corrected(freqs, z_rc, g_rc, solved)
+    z, g, is_solved = _corrected(freqs, z_rc, g_rc, solved, at)
     return Sweep(freqs, z, g, is_solved)
 
 
+def _impedance_difference(solved: dict[float, tuple[complex, np.ndarray]], z_rc: np.ndarray,
+                          at: dict[float, int]) -> tuple[list[float], np.ndarray, np.ndarray]:
+    """The solved frequencies, ascending, their Sommerfeld-Norton impedances and those less the cheap ground's."""
+    keys = sorted(solved)
+    zs = np.array([solved[f][0] for f in keys])
+    return keys, zs, zs - z_rc[[at[f] for f in keys]]
+
+
 def _corrected(freqs: tuple[float, ...], z_rc: np.ndarray, g_rc: np.ndarray,
-               solved: dict[float, tuple[complex, np.ndarray]]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+               solved: dict[float, tuple[complex, np.ndarray]], at: dict[float, int]
+               ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Sommerfeld-Norton where solved; elsewhere the reflection-coefficient solution plus the difference
     at the solved frequencies, interpolated in log f (PCHIP for R and X, linear for gain in dB)."""
-    at = {f: i for i, f in enumerate(freqs)}
-    keys = sorted(solved)
+    keys, _, dz = _impedance_difference(solved, z_rc, at)
     is_solved = np.array([f in solved for f in freqs])
     z = np.array(z_rc, complex)
     g = np.array(g_rc, float)
@@ -225,7 +231,6 @@ def _corrected(freqs: tuple[float, ...], z_rc: np.ndarray, g_rc: np.ndarray,
     if between.any():
         lk = np.log(keys)
         lf = np.log(np.asarray(freqs)[between])
-        dz = np.array([solved[f][0] for f in keys]) - z_rc[[at[f] for f in keys]]
         z[between] += PchipInterpolator(lk, dz.real)(lf) + 1j * PchipInterpolator(lk, dz.imag)(lf)
         dg = np.stack([_finite_gain(solved[f][1]) - _finite_gain(g_rc[at[f]]) for f in keys])
         dg = np.nan_to_num(dg.reshape(len(keys), -1), nan=0.0)  # no correction where either is NEC's floor
